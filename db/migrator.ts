@@ -1,0 +1,20 @@
+import { promises as fs } from 'node:fs'
+import path from 'node:path'
+import { fileURLToPath } from 'node:url'
+import { FileMigrationProvider, Kysely, Migrator, PostgresDialect } from 'kysely'
+import pg from 'pg'
+
+const migrationFolder = path.join(path.dirname(fileURLToPath(import.meta.url)), 'migrations')
+
+/** Opens a Kysely instance on a connection string (scripts and tests; the app uses server/utils/db.ts). */
+export function connect<T = any>(connectionString: string, max = 5): Kysely<T> {
+  return new Kysely<T>({ dialect: new PostgresDialect({ pool: new pg.Pool({ connectionString, max }) }) })
+}
+
+/** Applies every pending migration under db/migrations; throws on the first failure. */
+export async function migrateToLatest(db: Kysely<any>): Promise<string[]> {
+  const migrator = new Migrator({ db, provider: new FileMigrationProvider({ fs, path, migrationFolder }) })
+  const { error, results } = await migrator.migrateToLatest()
+  if (error) throw error
+  return (results ?? []).filter((r) => r.status === 'Success').map((r) => r.migrationName)
+}

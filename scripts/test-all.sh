@@ -1,0 +1,16 @@
+#!/usr/bin/env bash
+# Every test: installs what is missing, starts the test profile's services, builds the app, runs all vitest projects.
+set -euo pipefail
+cd "$(dirname "$0")/.."
+started=$(date +%s)
+bash scripts/ensure-system.sh --with-browser
+bash scripts/ensure-node-modules.sh
+node scripts/services.mjs start --profile test
+echo "Building the app for the end-to-end and browser tests…"
+mkdir -p .data/test/logs
+npx nuxt build > .data/test/logs/build.log 2>&1 || { tail -60 .data/test/logs/build.log; exit 1; }
+status=0
+npx vitest run "$@" || status=$?
+node scripts/services.mjs stop --profile test || true
+echo "Test run took $(( $(date +%s) - started )) s."
+exit $status

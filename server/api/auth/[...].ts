@@ -1,0 +1,45 @@
+import CredentialsProvider from 'next-auth/providers/credentials'
+import { NuxtAuthHandler } from '#auth'
+import { signInSchema } from '#shared/schemas/account'
+
+// Nitro's ESM output exposes the provider factory on .default.
+const Credentials = ((CredentialsProvider as any).default ?? CredentialsProvider) as typeof CredentialsProvider
+
+export default NuxtAuthHandler({
+  secret: useRuntimeConfig().authSecret,
+  session: { strategy: 'jwt', maxAge: 60 * 60 * 24 * 14 },
+  pages: { signIn: '/sign-in', error: '/sign-in' },
+  providers: [
+    Credentials({
+      name: 'E-mail and password',
+      credentials: { email: { label: 'E-mail', type: 'email' }, password: { label: 'Password', type: 'password' } },
+      async authorize(credentials, req) {
+        const parsed = signInSchema.safeParse(credentials ?? {})
+        const address = String((req?.headers as Record<string, string> | undefined)?.[CLIENT_ADDRESS_HEADER] ?? 'unknown')
+        if (!parsed.success) {
+          await recordSignInFailure(String(credentials?.email ?? ''), address)
+          return null
+        }
+        const user = await authenticate(parsed.data.email, parsed.data.password)
+        if (!user) {
+          await recordSignInFailure(parsed.data.email, address)
+          return null
+        }
+        return { id: user.id, name: user.name, email: user.email }
+      },
+    }),
+  ],
+  callbacks: {
+    jwt({ token, user }) {
+      if (user) {
+        token.sub = user.id
+        token.iat = Math.floor(Date.now() / 1000)
+      }
+      return token
+    },
+    session({ session, token }) {
+      ;(session.user as Record<string, unknown>).id = token.sub
+      return session
+    },
+  },
+})

@@ -1,0 +1,68 @@
+import { sql, type Transaction } from 'kysely'
+import type { Database } from '~~/db/database'
+import type { Role } from '#shared/permissions'
+
+export interface MemberView { userId: string; name: string; email: string; role: Role; since: Date }
+
+/** Active members of the organisation. */
+export async function listMembers(ctx: MemberContext): Promise<MemberView[]> {
+  const rows = await useDb()
+    .selectFrom('memberships as m')
+    .innerJoin('users as u', 'u.id', 'm.user_id')
+    .select(['u.id', 'u.name', 'u.email', 'm.role', 'm.created_at'])
+    .where('m.organisation_id', '=', ctx.org.id)
+    .where('m.removed_at', 'is', null)
+    .orderBy('u.name')
+    .execute()
+  return rows.map((r) => ({ userId: r.id, name: r.name, email: r.email, role: r.role, since: r.created_at }))
+}
+
+// Owner rows are locked while changing roles so that two owners demoting each other cannot leave none.
+async function ownersLocked(trx: Transaction<Database>, orgId: string) {
+  const rows = await trx.selectFrom('memberships').select('user_id')
+    .where('organisation_id', '=', orgId).where('role', '=', 'owner').where('removed_at', 'is', null)
+    .forUpdate().execute()
+  return rows.map((r) => r.user_id)
+}
+
+function lastOwner(orgName: string) {
+  return createError({
+    statusCode: 409,
+    statusMessage: 'Last owner',
+    data: { message: `${orgName} must keep at least one owner. Make someone else an owner first.`, fieldErrors: { role: ['An organisation always keeps at least one owner.'] } },
+  })
+}
+
+/** Changes a member's role; never leaves the organisation without an owner. */
+export async function changeRole(ctx: MemberContext, userId: string, role: Role): Promise<MemberView> {
+  return useDb().transaction().execute(async (trx) => {
+    const owners = await ownersLocked(trx, ctx.org.id)
+    const target = await trx.selectFrom('memberships as m').innerJoin('users as u', 'u.id', 'm.user_id')
+      .select(['u.id', 'u.name', 'u.email', 'm.role', 'm.created_at'])
+      .where('m.organisation_id', '=', ctx.org.id).where('m.user_id', '=', userId).where('m.removed_at', 'is', null)
+      .executeTakeFirst()
+    if (!target) throw notFound('Member')
+    if (target.role === 'owner' && role !== 'owner' && owners.length <= 1) throw lastOwner(ctx.org.name)
+    await trx.updateTable('memberships')
+      .set({ role, updated_at: new Date(), version: sql`version + 1` })
+      .where('organisation_id', '=', ctx.org.id).where('user_id', '=', userId)
+      .execute()
+    return { userId: target.id, name: target.name, email: target.email, role, since: target.created_at }
+  })
+}
+
+/** Removes a member (kept as removed, so history keeps the name); never the last owner. */
+export async function removeMember(ctx: MemberContext, userId: string): Promise<void> {
+  await useDb().transaction().execute(async (trx) => {
+    const owners = await ownersLocked(trx, ctx.org.id)
+    const target = await trx.selectFrom('memberships').select('role')
+      .where('organisation_id', '=', ctx.org.id).where('user_id', '=', userId).where('removed_at', 'is', null)
+      .executeTakeFirst()
+    if (!target) throw notFound('Member')
+    if (target.role === 'owner' && owners.length <= 1) throw lastOwner(ctx.org.name)
+    await trx.updateTable('memberships')
+      .set({ removed_at: new Date(), updated_at: new Date(), version: sql`version + 1` })
+      .where('organisation_id', '=', ctx.org.id).where('user_id', '=', userId)
+      .execute()
+  })
+}

@@ -1,0 +1,97 @@
+import type { H3Event } from 'h3'
+import { sql } from 'kysely'
+import { getServerSession } from '#auth'
+import { can, type Permission, type Role } from '#shared/permissions'
+import { orgSlugSchema } from '#shared/schemas/organisation'
+import { verifyPassword, burnPasswordCheck } from './passwords'
+
+export interface SessionUser {
+  id: string
+  email: string
+  name: string
+  temperatureUnit: 'C' | 'F'
+  lengthUnit: 'm' | 'ft'
+  timeZone: string
+}
+
+export interface MemberContext {
+  user: SessionUser
+  org: { id: string; slug: string; name: string }
+  member: { role: Role; since: Date }
+}
+
+/** Checks an e-mail and password; null when either is wrong (the caller cannot tell which). */
+export async function authenticate(email: string, password: string) {
+  const user = await useDb()
+    .selectFrom('users')
+    .select(['id', 'name', 'email', 'password_hash'])
+    .where(sql`lower(email)`, '=', email.toLowerCase())
+    .executeTakeFirst()
+  if (!user) return burnPasswordCheck(password).then(() => null)
+  return (await verifyPassword(password, user.password_hash)) ? user : null
+}
+
+const unauthenticated = () =>
+  createError({ statusCode: 401, statusMessage: 'Unauthenticated', data: { message: 'Please sign in.' } })
+
+/** The signed-in user, read fresh from the database; 401 when there is none or the account is gone. */
+export async function requireUser(event: H3Event): Promise<SessionUser> {
+  if (event.context.greybodyUser) return event.context.greybodyUser as SessionUser
+  const session = await getServerSession(event)
+  const id = (session?.user as { id?: string } | undefined)?.id
+  if (!id) throw unauthenticated()
+  const row = await useDb()
+    .selectFrom('users')
+    .select(['id', 'email', 'name', 'temperature_unit', 'length_unit', 'time_zone', 'password_changed_at'])
+    .where('id', '=', id)
+    .executeTakeFirst()
+  if (!row) throw unauthenticated()
+  const user: SessionUser = {
+    id: row.id,
+    email: row.email,
+    name: row.name,
+    temperatureUnit: row.temperature_unit,
+    lengthUnit: row.length_unit,
+    timeZone: row.time_zone,
+  }
+  event.context.greybodyUser = user
+  return user
+}
+
+/**
+ * The one way a handler learns the organisation: the slug in the path, resolved against the signed-in user's
+ * membership. No membership → 404 (reveals nothing); removed → 403 with a clear message; missing permission → 403.
+ */
+export async function requireMember(event: H3Event, opts: { permission: Permission }): Promise<MemberContext> {
+  const user = await requireUser(event)
+  const slug = orgSlugSchema.safeParse(getRouterParam(event, 'org'))
+  if (!slug.success) throw notFound('Organisation')
+  const row = await useDb()
+    .selectFrom('memberships as m')
+    .innerJoin('organisations as o', 'o.id', 'm.organisation_id')
+    .select(['o.id', 'o.slug', 'o.name', 'm.role', 'm.removed_at', 'm.created_at'])
+    .where('o.slug', '=', slug.data)
+    .where('m.user_id', '=', user.id)
+    .executeTakeFirst()
+  if (!row) throw notFound('Organisation')
+  if (row.removed_at) {
+    throw createError({
+      statusCode: 403,
+      statusMessage: 'No longer a member',
+      data: { message: `You are no longer a member of ${row.name}. Ask one of its owners to invite you again.` },
+    })
+  }
+  if (!can(row.role, opts.permission)) {
+    throw createError({
+      statusCode: 403,
+      statusMessage: 'Forbidden',
+      data: { message: `Your role (${row.role}) in ${row.name} does not allow this.` },
+    })
+  }
+  return { user, org: { id: row.id, slug: row.slug, name: row.name }, member: { role: row.role, since: row.created_at } }
+}
+
+/** A 404 that names what was not found. */
+export function notFound(what: string) {
+  return createError({ statusCode: 404, statusMessage: 'Not found', data: { message: `${what} not found.` } })
+}

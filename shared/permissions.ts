@@ -1,0 +1,40 @@
+/** Roles a person can hold in one organisation. */
+export const ROLES = ['owner', 'manager', 'thermographer', 'crew', 'viewer'] as const
+export type Role = (typeof ROLES)[number]
+
+export const ROLE_LABELS: Record<Role, string> = {
+  owner: 'Owner',
+  manager: 'Manager',
+  thermographer: 'Thermographer',
+  crew: 'Crew',
+  viewer: 'Viewer',
+}
+
+export const ROLE_DESCRIPTIONS: Record<Role, string> = {
+  owner: 'Billing, plan and seats, organisation settings, members and invitations; everything a manager does.',
+  manager: 'Asset register, routes and schedules, criteria sets, surface library, instruments, surveys, work orders, reviews and reports.',
+  thermographer: 'Runs assigned surveys in the field, records checks and findings, uploads images and temperature grids.',
+  crew: 'Sees the work orders assigned to the crew, records repairs, requests verification.',
+  viewer: 'Read-only access for engineering reviewers, insurers and auditors.',
+}
+
+/**
+ * The permission matrix: each permission lists the roles that hold it.
+ * The server checks these in requireMember(); the client uses them only to hide what a person cannot do.
+ */
+export const PERMISSIONS = {
+  'organisation.view': ['owner', 'manager', 'thermographer', 'crew', 'viewer'],
+  'organisation.manage': ['owner'],
+  'members.view': ['owner', 'manager'],
+  'members.manage': ['owner'],
+  'billing.manage': ['owner'],
+  'register.view': ['owner', 'manager', 'thermographer', 'crew', 'viewer'],
+  'register.edit': ['owner', 'manager'],
+  'workbench.use': ['owner', 'manager', 'thermographer', 'crew', 'viewer'],
+} as const satisfies Record<string, readonly Role[]>
+export type Permission = keyof typeof PERMISSIONS
+
+/** Whether a role holds a permission. */
+export function can(role: Role | null | undefined, permission: Permission): boolean {
+  return !!role && (PERMISSIONS[permission] as readonly Role[]).includes(role)
+}

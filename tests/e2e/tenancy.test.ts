@@ -1,0 +1,110 @@
+import { readdirSync, statSync } from 'node:fs'
+import path from 'node:path'
+import { beforeAll, describe, expect, it } from 'vitest'
+import { ApiClient, linkIn, mailFor, signUpOwner } from '../support/api'
+import { resetDatabase } from '../support/db'
+import { ROOT } from '../support/env'
+import { ORG_ROUTES, type OrgRoute } from '../support/org-routes'
+import { ROLES, can, type Role } from '../../shared/permissions'
+
+interface Tenant { owner: ApiClient; slug: string; ownerId: string; invitationId: string; members: Record<Role, ApiClient>; memberIds: Record<Role, string> }
+
+let a: Tenant
+let b: Tenant
+
+// Builds an organisation with one member per role (and a pending invitation), all through the public API.
+async function tenant(prefix: string): Promise<Tenant> {
+  const { client: owner, slug, userId: ownerId } = await signUpOwner(`${prefix} Owner`, `${prefix}-owner@tenancy.test`, `${prefix} Utility`)
+  const members = { owner } as Record<Role, ApiClient>
+  for (const role of ROLES.filter((r) => r !== 'owner')) {
+    const email = `${prefix}-${role}@tenancy.test`
+    await owner.post(`/api/orgs/${slug}/invitations`, { email, role })
+    const [mail] = await mailFor(email)
+    const token = linkIn(mail!.text, '/invitations/').split('/invitations/')[1]!
+    const c = new ApiClient()
+    await c.post('/api/account/sign-up', { name: `${prefix} ${role}`, email, password: 'tenancy password', invitationToken: token })
+    await c.signIn(email, 'tenancy password')
+    members[role] = c
+  }
+  const list = (await owner.get(`/api/orgs/${slug}/members`)).body as Array<{ email: string; role: Role; userId: string }>
+  const memberIds = Object.fromEntries(list.map((m) => [m.role, m.userId])) as Record<Role, string>
+  const inv = await owner.post(`/api/orgs/${slug}/invitations`, { email: `${prefix}-pending@tenancy.test`, role: 'viewer' })
+  return { owner, slug, ownerId, invitationId: inv.body.id, members, memberIds }
+}
+
+function fill(route: OrgRoute, slug: string, t: Tenant) {
+  const id = route.idKind === 'member' ? t.memberIds.viewer : route.idKind === 'invitation' ? t.invitationId : ''
+  return route.path.replace(':org', slug).replace(':id', id)
+}
+
+beforeAll(async () => {
+  await resetDatabase()
+  a = await tenant('alpha')
+  b = await tenant('beta')
+}, 120_000)
+
+describe('route list', () => {
+  it('names every organisation-scoped route file', () => {
+    const base = path.join(ROOT, 'server/api')
+    const files: string[] = []
+    const walk = (dir: string) => {
+      for (const f of readdirSync(dir)) {
+        const p = path.join(dir, f)
+        if (statSync(p).isDirectory()) walk(p)
+        else files.push(path.relative(base, p))
+      }
+    }
+    walk(path.join(base, 'orgs/[org]'))
+    expect(files.sort()).toEqual(ORG_ROUTES.map((r) => r.file).sort())
+  })
+})
+
+describe('cross-tenant isolation', () => {
+  it.each(ORG_ROUTES.map((r) => [`${r.method} ${r.path}`, r] as const))('%s: every role of another organisation gets 403 or 404, never data', async (_, route) => {
+    for (const role of ROLES) {
+      const res = await b.members[role].request(route.method, fill(route, a.slug, a), route.body)
+      expect([403, 404], `${role} of beta → ${res.status} ${JSON.stringify(res.body)}`).toContain(res.status)
+      // Nothing of alpha's may come back: no member e-mails, no organisation name, no ids (the echoed URL aside).
+      const { url: _echo, ...rest } = (res.body ?? {}) as Record<string, unknown>
+      expect(JSON.stringify(rest)).not.toMatch(/alpha-[a-z]+@tenancy\.test|alpha Utility|[0-9a-f]{8}-[0-9a-f]{4}-/)
+    }
+  })
+
+  it.each(ORG_ROUTES.filter((r) => r.idKind).map((r) => [`${r.method} ${r.path}`, r] as const))('%s: an id of another organisation under one\'s own path is not found', async (_, route) => {
+    const res = await b.owner.request(route.method, fill(route, b.slug, a), route.body)
+    expect(res.status).toBe(404)
+  })
+
+  it('leaves the other organisation untouched', async () => {
+    const org = await a.owner.get(`/api/orgs/${a.slug}`)
+    expect(org.body.name).toBe('alpha Utility')
+    const members = await a.owner.get(`/api/orgs/${a.slug}/members`)
+    expect(members.body).toHaveLength(ROLES.length)
+    const invitations = await a.owner.get(`/api/orgs/${a.slug}/invitations`)
+    expect(invitations.body.map((i: { email: string }) => i.email)).toEqual(['alpha-pending@tenancy.test'])
+  })
+
+  it('answers 401 to a request without a session', async () => {
+    for (const route of ORG_ROUTES) {
+      const res = await new ApiClient().request(route.method, fill(route, a.slug, a), route.body)
+      expect(res.status, `${route.method} ${route.path}`).toBe(401)
+    }
+  })
+})
+
+describe('roles', () => {
+  it.each(ORG_ROUTES.map((r) => [`${r.method} ${r.path}`, r] as const))('%s refuses the roles the matrix does not allow', async (_, route) => {
+    for (const role of ROLES.filter((r) => !can(r, route.permission))) {
+      const res = await b.members[role].request(route.method, fill(route, b.slug, b), route.body)
+      expect(res.status, `${role} → ${res.status}`).toBe(403)
+      expect(res.body.data.message).toMatch(/does not allow/)
+    }
+  })
+
+  it.each(ORG_ROUTES.filter((r) => r.method === 'GET').map((r) => [`${r.method} ${r.path}`, r] as const))('%s answers the roles the matrix allows', async (_, route) => {
+    for (const role of ROLES.filter((r) => can(r, route.permission))) {
+      const res = await b.members[role].request(route.method, fill(route, b.slug, b))
+      expect(res.status, `${role} → ${res.status}`).toBe(200)
+    }
+  })
+})
