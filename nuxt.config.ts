@@ -1,4 +1,7 @@
 // Nuxt's source directory is the repository root (see DEVELOPERS.md).
+const profile = process.env.GREYBODY_TEST_PROFILE
+const outputDir = profile && profile !== 'test' ? `.output-${profile}` : '.output'
+
 export default defineNuxtConfig({
   compatibilityDate: '2026-11-01',
   srcDir: '.',
@@ -51,8 +54,13 @@ export default defineNuxtConfig({
       devMailbox: '',
     },
   },
+  // A parallel test profile (GREYBODY_TEST_PROFILE=test-N) builds into its own folders so runs do not collide.
+  ...(process.env.GREYBODY_TEST_PROFILE && process.env.GREYBODY_TEST_PROFILE !== 'test'
+    ? { buildDir: `node_modules/.cache/nuxt/.nuxt-${process.env.GREYBODY_TEST_PROFILE}` }
+    : {}),
   nitro: {
     preset: 'node-server',
+    output: { dir: outputDir },
   },
   typescript: { strict: true },
 })

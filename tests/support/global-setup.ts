@@ -1,7 +1,7 @@
 import { execFileSync, spawn, type ChildProcess } from 'node:child_process'
 import { existsSync, mkdirSync, openSync } from 'node:fs'
 import type { TestProject } from 'vitest/node'
-import { ROOT, testEnv } from './env'
+import { OUTPUT_DIR, PROFILE, ROOT, testEnv } from './env'
 
 // e2e and browser projects share one built server; the first to start it owns it, the last to finish stops it.
 const shared = globalThis as unknown as { __greybodyServer?: { child: ChildProcess; users: number } }
@@ -9,7 +9,7 @@ const shared = globalThis as unknown as { __greybodyServer?: { child: ChildProce
 async function waitForHealth(url: string, child: ChildProcess, timeoutMs = 60_000) {
   const until = Date.now() + timeoutMs
   while (Date.now() < until) {
-    if (child.exitCode !== null) throw new Error(`The app exited with code ${child.exitCode}; see .data/test/logs/app.log`)
+    if (child.exitCode !== null) throw new Error(`The app exited with code ${child.exitCode}; see .data/${PROFILE}/logs/app.log`)
     try {
       const res = await fetch(`${url}/api/health`)
       if (res.ok) return
@@ -30,10 +30,10 @@ export default async function setup(project: TestProject) {
   } else {
     // Migrations are TypeScript files loaded by Kysely's provider: run them through tsx, as the start script does.
     execFileSync('node', ['--import', 'tsx', 'scripts/migrate.ts'], { cwd: ROOT, env: { ...process.env, ...env }, stdio: 'inherit' })
-    if (!existsSync(`${ROOT}.output/server/index.mjs`)) throw new Error('No build: run `npx nuxt build` (npm run test:all does it).')
-    mkdirSync(`${ROOT}.data/test/logs`, { recursive: true })
-    const log = openSync(`${ROOT}.data/test/logs/app.log`, 'a')
-    const child = spawn('node', ['.output/server/index.mjs'], {
+    if (!existsSync(`${ROOT}${OUTPUT_DIR}/server/index.mjs`)) throw new Error(`No build in ${OUTPUT_DIR}: run \`npx nuxt build\` (npm run test:all does it).`)
+    mkdirSync(`${ROOT}.data/${PROFILE}/logs`, { recursive: true })
+    const log = openSync(`${ROOT}.data/${PROFILE}/logs/app.log`, 'a')
+    const child = spawn('node', [`${OUTPUT_DIR}/server/index.mjs`], {
       cwd: ROOT,
       env: { ...process.env, ...env, NODE_ENV: 'production', BCRYPT_ROUNDS: '4' },
       stdio: ['ignore', log, log],

@@ -1,0 +1,42 @@
+import { createRequire } from 'node:module'
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core'
+import { expect, inject } from 'vitest'
+
+const require = createRequire(import.meta.url)
+
+/** Debian's Chromium, headless, with the flags a root sandbox without network needs. Never a downloaded browser. */
+export function launchBrowser(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH || '/usr/bin/chromium',
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
+      '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage'],
+  })
+}
+
+/** A fresh browser profile (its own cookies) aimed at the test server; phone-sized when asked. */
+export async function newSession(browser: Browser, opts: { phone?: boolean } = {}): Promise<{ context: BrowserContext; page: Page }> {
+  const context = await browser.newContext({
+    baseURL: inject('baseUrl'),
+    viewport: opts.phone ? { width: 390, height: 844 } : { width: 1280, height: 860 },
+    isMobile: !!opts.phone,
+    hasTouch: !!opts.phone,
+  })
+  context.setDefaultTimeout(15_000)
+  const page = await context.newPage()
+  return { context, page }
+}
+
+/** Runs axe-core on the page and fails on any serious or critical violation, listing them. */
+export async function expectAccessible(page: Page, label: string): Promise<void> {
+  await page.addScriptTag({ path: require.resolve('axe-core/axe.min.js') })
+  const violations = await page.evaluate(async () => {
+    const result = await (window as unknown as { axe: { run: (ctx: Document, opts: object) => Promise<any> } }).axe.run(document, {
+      resultTypes: ['violations'],
+    })
+    return result.violations
+      .filter((v: { impact: string }) => v.impact === 'serious' || v.impact === 'critical')
+      .map((v: { id: string; impact: string; help: string; nodes: Array<{ target: string[] }> }) =>
+        `${v.impact} ${v.id}: ${v.help} → ${v.nodes.slice(0, 3).map((n) => n.target.join(' ')).join(' | ')}`)
+  })
+  expect(violations, `accessibility on ${label}`).toEqual([])
+}
