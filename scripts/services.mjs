@@ -62,7 +62,7 @@ function checkProfile(/** @type {string} */ profile) {
   const parallel = /^test-([1-9])$/.exec(profile)
   if (parallel && !(profile in PROFILES)) {
     const n = Number(parallel[1])
-    /** @type {any} */ (PROFILES)[profile] = { portOffset: 100 + 100 * n, appPort: 3100 + 10 * n, database: 'greybody_test', fast: true }
+    ;/** @type {any} */ (PROFILES)[profile] = { portOffset: 100 + 100 * n, appPort: 3100 + 10 * n, database: 'greybody_test', fast: true }
   }
   if (!(profile in PROFILES)) throw new Error(`Unknown profile "${profile}" (use dev, test or test-1 … test-9).`)
   return /** @type {Profile} */ (profile)
