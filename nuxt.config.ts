@@ -10,6 +10,7 @@ export default defineNuxtConfig({
   telemetry: false,
   modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', '@sidebase/nuxt-auth'],
   css: ['~/assets/css/main.css'],
+  tailwindcss: { cssPath: '~/assets/css/main.css' },
   app: {
     head: {
       htmlAttrs: { lang: 'en' },

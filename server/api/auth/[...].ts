@@ -30,6 +30,15 @@ export default NuxtAuthHandler({
     }),
   ],
   callbacks: {
+    // Only same-origin redirects, and a missing or malformed callback falls back to the app's root instead of a 500.
+    redirect({ url, baseUrl }) {
+      try {
+        const target = new URL(url, baseUrl)
+        return target.origin === new URL(baseUrl).origin ? target.toString() : baseUrl
+      } catch {
+        return baseUrl
+      }
+    },
     jwt({ token, user }) {
       if (user) {
         token.sub = user.id
