@@ -11,7 +11,7 @@
 //   POST /_control/advance?days=N[&hours=H]                  move the clock; renewals and period ends run
 //   POST /_control/webhook-url?url=…                         change where webhooks go
 //   GET  /_control/webhooks                                   deliveries so far (waits for the queue)
-//   POST /_control/reset                                      forget everything except the catalogue
+//   POST /_control/reset                                      forget everything except the catalogue (deliveries too)
 //   GET  /_control/health
 import fs from 'node:fs'
 import http from 'node:http'
@@ -210,6 +210,8 @@ export async function startStripeFake({
     if (path === '/_control/reset') {
       b.reset()
       idempotent.clear()
+      // Deliveries go too, so a test that checks "every webhook was accepted" sees only its own.
+      deliveries.length = 0
       save()
       return send(res, 200, { ok: true })
     }

@@ -4,6 +4,7 @@ import type { Invitation } from '~~/db/tables/invitations'
 import type { Role } from '#shared/permissions'
 import { ROLE_LABELS } from '#shared/permissions'
 import { invitationEmail } from './emails'
+import { assertSeatFor } from './billing'
 
 export const INVITATION_DAYS = 7
 
@@ -50,12 +51,18 @@ export async function createInvitation(ctx: MemberContext, email: string, role: 
   if (existing) fieldError('email', `${email} is already a member of ${ctx.org.name}.`, 409)
   const { token, hash } = newToken()
   const expiresAt = new Date(Date.now() + INVITATION_DAYS * 86400_000)
-  const row = await db
-    .insertInto('invitations')
-    .values({ organisation_id: ctx.org.id, email, role, token_hash: hash, invited_by: ctx.user.id, expires_at: expiresAt })
-    .onConflict((oc) => oc.expression(sql`organisation_id, lower(email)`).where('status', '=', 'pending').doNothing())
-    .returning(columns)
-    .executeTakeFirst()
+  // A pending invitation for an editing role holds a seat: inserted, then counted under the billing row's lock,
+  // so two invitations cannot take the last seat; a refusal rolls the insert back.
+  const row = await db.transaction().execute(async (trx) => {
+    const inserted = await trx
+      .insertInto('invitations')
+      .values({ organisation_id: ctx.org.id, email, role, token_hash: hash, invited_by: ctx.user.id, expires_at: expiresAt })
+      .onConflict((oc) => oc.expression(sql`organisation_id, lower(email)`).where('status', '=', 'pending').doNothing())
+      .returning(columns)
+      .executeTakeFirst()
+    if (inserted) await assertSeatFor(trx, ctx.org, role, ctx.member.role, { adding: 0 })
+    return inserted
+  })
   if (!row) fieldError('email', `${email} already has a pending invitation. Resend it from the list instead.`, 409)
   await mail(ctx.org.name, ctx.user.name, role, email, token, expiresAt)
   return toInvitationView(row)
@@ -125,6 +132,8 @@ export async function acceptInvitation(trx: Transaction<Database>, token: string
     .where('organisation_id', '=', inv.organisation_id).where('user_id', '=', user.id).where('removed_at', 'is', null)
     .executeTakeFirst()
   if (!active) {
+    // Joining with an editing role needs a free seat (the owners may have reduced seats since inviting).
+    await assertSeatFor(trx, { id: inv.organisation_id, name: inv.org_name }, inv.role, null, { countPending: false })
     await trx.insertInto('memberships')
       .values({ organisation_id: inv.organisation_id, user_id: user.id, role: inv.role, removed_at: null })
       .onConflict((oc) => oc.columns(['organisation_id', 'user_id']).doUpdateSet({

@@ -1,6 +1,8 @@
 import { sql, type Transaction } from 'kysely'
 import type { Database } from '~~/db/database'
 import type { Role } from '#shared/permissions'
+import { takesSeat } from '#shared/billing/plans'
+import { assertSeatFor } from './billing'
 
 export interface MemberView { userId: string; name: string; email: string; role: Role; since: Date }
 
@@ -43,6 +45,8 @@ export async function changeRole(ctx: MemberContext, userId: string, role: Role)
       .executeTakeFirst()
     if (!target) throw notFound('Member')
     if (target.role === 'owner' && role !== 'owner' && owners.length <= 1) throw lastOwner(ctx.org.name)
+    // A viewer given an editing role starts taking a seat.
+    if (!takesSeat(target.role)) await assertSeatFor(trx, ctx.org, role, ctx.member.role)
     await trx.updateTable('memberships')
       .set({ role, updated_at: new Date(), version: sql`version + 1` })
       .where('organisation_id', '=', ctx.org.id).where('user_id', '=', userId)

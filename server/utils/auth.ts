@@ -62,7 +62,11 @@ export async function requireUser(event: H3Event): Promise<SessionUser> {
  * The one way a handler learns the organisation: the slug in the path, resolved against the signed-in user's
  * membership. No membership → 404 (reveals nothing); removed → 403 with a clear message; missing permission → 403.
  */
-export async function requireMember(event: H3Event, opts: { permission: Permission }): Promise<MemberContext> {
+export async function requireMember(
+  event: H3Event,
+  // allowWhenReadOnly: for the few writes a lapsed organisation must still make (paying, exports sent as POST).
+  opts: { permission: Permission; allowWhenReadOnly?: boolean },
+): Promise<MemberContext> {
   const user = await requireUser(event)
   const slug = orgSlugSchema.safeParse(getRouterParam(event, 'org'))
   if (!slug.success) throw notFound('Organisation')
@@ -87,6 +91,11 @@ export async function requireMember(event: H3Event, opts: { permission: Permissi
       statusMessage: 'Forbidden',
       data: { message: `Your role (${row.role}) in ${row.name} does not allow this.` },
     })
+  }
+  // After a billing lapse the organisation is read-only: checked here, once, for every organisation route that
+  // is not a read, so no write route can forget it (402 with a plain message; see server/utils/billing.ts).
+  if (event.method !== 'GET' && event.method !== 'HEAD' && !opts.allowWhenReadOnly) {
+    await assertWritable({ id: row.id, name: row.name }, row.role)
   }
   return { user, org: { id: row.id, slug: row.slug, name: row.name }, member: { role: row.role, since: row.created_at } }
 }
