@@ -53,6 +53,9 @@ export default defineNuxtConfig({
     signInWindowSeconds: '900',
     public: {
       devMailbox: '',
+      // Production may point the map at a tile server; without one the map draws the land outline shipped with the app.
+      mapTileUrl: '',
+      mapTileAttribution: '',
     },
   },
   // A parallel test profile (GREYBODY_TEST_PROFILE=test-N) builds into its own folders so runs do not collide.

@@ -6,6 +6,19 @@ import type { PasswordResetsTable } from './tables/password-resets'
 import type { SignInFailuresTable } from './tables/sign-in-failures'
 import type { SitesTable } from './tables/sites'
 import type { AssetsTable } from './tables/assets'
+import type { RegisterImportsTable } from './tables/register-imports'
+import type { RegisterImportRowsTable } from './tables/register-import-rows'
+import type { InstrumentsTable } from './tables/instruments'
+import type { SurfacesTable } from './tables/surfaces'
+import type { RoutesTable } from './tables/routes'
+import type { RouteStopsTable } from './tables/route-stops'
+import type { OrganisationBillingTable } from './tables/organisation-billing'
+import type { StripeEventsTable } from './tables/stripe-events'
+import type { BillingInvoicesTable } from './tables/billing-invoices'
+import type { SurveysTable } from './tables/surveys'
+import type { SurveySitesTable } from './tables/survey-sites'
+import type { ChecksTable } from './tables/checks'
+import type { FindingsTable } from './tables/findings'
 
 /** The Kysely schema of Greybody's database: one interface per table, snake_case as stored. */
 export interface Database {
@@ -17,4 +30,17 @@ export interface Database {
   sign_in_failures: SignInFailuresTable
   sites: SitesTable
   assets: AssetsTable
+  register_imports: RegisterImportsTable
+  register_import_rows: RegisterImportRowsTable
+  instruments: InstrumentsTable
+  surfaces: SurfacesTable
+  routes: RoutesTable
+  route_stops: RouteStopsTable
+  organisation_billing: OrganisationBillingTable
+  stripe_events: StripeEventsTable
+  billing_invoices: BillingInvoicesTable
+  surveys: SurveysTable
+  survey_sites: SurveySitesTable
+  checks: ChecksTable
+  findings: FindingsTable
 }

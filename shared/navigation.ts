@@ -23,6 +23,8 @@ export const ORG_NAV: readonly NavItem[] = [
   { key: 'programme', label: 'Due', path: 'programme', icon: 'calendar', permission: 'register.view' },
   { key: 'instruments', label: 'Instruments', path: 'instruments', icon: 'instrument', permission: 'register.view' },
   { key: 'surfaces', label: 'Surfaces', path: 'surfaces', icon: 'surface', permission: 'register.view' },
+  { key: 'surveys', label: 'Surveys', path: 'surveys', icon: 'calendar', permission: 'surveys.view' },
+  { key: 'findings', label: 'Findings', path: 'findings', icon: 'workbench', permission: 'surveys.view' },
   { key: 'members', label: 'Members', path: 'members', icon: 'members', permission: 'members.view' },
   { key: 'settings', label: 'Settings', path: 'settings', icon: 'settings', permission: 'organisation.manage' },
   { key: 'billing', label: 'Billing', path: 'billing', icon: 'billing', permission: 'billing.manage' },

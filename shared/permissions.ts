@@ -31,6 +31,13 @@ export const PERMISSIONS = {
   'register.view': ['owner', 'manager', 'thermographer', 'crew', 'viewer'],
   'register.edit': ['owner', 'manager'],
   'workbench.use': ['owner', 'manager', 'thermographer', 'crew', 'viewer'],
+  // Routes and schedules are planned by managers; everyone reads them (instruments and surfaces use register.*).
+  'routes.edit': ['owner', 'manager'],
+  // Surveys: managers plan and review; the assigned thermographer runs them; everyone reads them.
+  'surveys.view': ['owner', 'manager', 'thermographer', 'crew', 'viewer'],
+  'surveys.plan': ['owner', 'manager'],
+  'surveys.run': ['owner', 'manager', 'thermographer'],
+  'findings.review': ['owner', 'manager'],
 } as const satisfies Record<string, readonly Role[]>
 export type Permission = keyof typeof PERMISSIONS
 

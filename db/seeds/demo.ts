@@ -1,6 +1,8 @@
 import bcrypt from 'bcryptjs'
 import type { Kysely } from 'kysely'
 import type { Database } from '../database'
+import { seedDemoProgramme } from './programme'
+import { TRIAL_DAYS, TRIAL_SEATS } from '../../shared/billing/plans'
 
 // The demo scenario is invented: Lowmoor Valley Power is a fictional utility, its sites and people are made up.
 export const DEMO_PASSWORD = 'greybody-demo-2026'
@@ -58,6 +60,12 @@ export async function seedDemo(db: Kysely<Database>): Promise<boolean> {
       .returning('id').executeTakeFirstOrThrow()
     const contractor = await trx.insertInto('organisations').values({ slug: DEMO_CONTRACTOR.slug, name: DEMO_CONTRACTOR.name, time_zone: 'Europe/London' })
       .returning('id').executeTakeFirstOrThrow()
+    // Both demo organisations are on the trial, as every new organisation is.
+    for (const id of [org.id, contractor.id]) {
+      await trx.insertInto('organisation_billing').values({
+        organisation_id: id, plan: 'trial', status: 'trialing', seats_paid: TRIAL_SEATS, trial_ends_at: new Date(Date.now() + TRIAL_DAYS * 86_400_000),
+      }).execute()
+    }
     for (const u of DEMO_USERS) {
       const user = await trx.insertInto('users')
         .values({ email: u.email, name: u.name, password_hash: hash, time_zone: 'Europe/London' })
@@ -92,6 +100,8 @@ export async function seedDemo(db: Kysely<Database>): Promise<boolean> {
         }).execute()
       }
     }
+    // Surface libraries, instruments and a route (db/seeds/programme.ts).
+    await seedDemoProgramme(trx, { orgId: org.id, contractorId: contractor.id })
   })
   return true
 }

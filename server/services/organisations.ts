@@ -1,5 +1,7 @@
 import type { Kysely, Transaction } from 'kysely'
 import type { Database } from '~~/db/database'
+import { seedSurfaceLibrary } from '~~/db/seeds/surfaces'
+import { startTrial } from './billing'
 
 /** A URL-safe slug for an organisation name, unique among organisations. */
 export async function uniqueSlug(db: Kysely<Database> | Transaction<Database>, name: string): Promise<string> {
@@ -18,6 +20,10 @@ export async function createOrganisation(trx: Transaction<Database>, name: strin
   const slug = await uniqueSlug(trx, name)
   const org = await trx.insertInto('organisations').values({ name, slug }).returning(['id', 'slug', 'name']).executeTakeFirstOrThrow()
   await trx.insertInto('memberships').values({ organisation_id: org.id, user_id: ownerId, role: 'owner', removed_at: null }).execute()
+  // Every organisation starts with the reference emissivities (reference sheet §4), each with its source.
+  await seedSurfaceLibrary(trx, org.id)
+  // Every new organisation starts on the trial (see shared/billing/plans.ts).
+  await startTrial(trx, org.id)
   return org
 }
 

@@ -2,6 +2,7 @@ export default defineEventHandler(async (event) => {
   const ctx = await requireMember(event, { permission: 'organisation.view' })
   const org = await useDb().selectFrom('organisations')
     .select(['slug', 'name', 'load_exponent', 'time_zone', 'version', 'created_at'])
+    .select(['road_factor', 'average_speed_kmh', 'interval_months_normal', 'interval_months_condition3', 'monitor_bands', 'monitor_factor'])
     .where('id', '=', ctx.org.id)
     .executeTakeFirstOrThrow()
   const [sites, assets] = await Promise.all([
@@ -19,5 +20,13 @@ export default defineEventHandler(async (event) => {
     createdAt: org.created_at,
     myRole: ctx.member.role,
     counts: { sites: Number(sites.n), assets: Number(assets.n) },
+    programme: {
+      roadFactor: Number(org.road_factor),
+      averageSpeedKmh: Number(org.average_speed_kmh),
+      intervalMonthsNormal: org.interval_months_normal,
+      intervalMonthsCondition3: org.interval_months_condition3,
+      monitorBands: org.monitor_bands.map(Number),
+      monitorFactor: Number(org.monitor_factor),
+    },
   }
 })

@@ -10,6 +10,12 @@ export default defineEventHandler(async (event) => {
       ...(input.name && { name: input.name }),
       ...(input.loadExponent !== undefined && { load_exponent: input.loadExponent }),
       ...(input.timeZone && { time_zone: input.timeZone }),
+      ...(input.roadFactor !== undefined && { road_factor: input.roadFactor }),
+      ...(input.averageSpeedKmh !== undefined && { average_speed_kmh: input.averageSpeedKmh }),
+      ...(input.intervalMonthsNormal !== undefined && { interval_months_normal: input.intervalMonthsNormal }),
+      ...(input.intervalMonthsCondition3 !== undefined && { interval_months_condition3: input.intervalMonthsCondition3 }),
+      ...(input.monitorBands !== undefined && { monitor_bands: input.monitorBands }),
+      ...(input.monitorFactor !== undefined && { monitor_factor: input.monitorFactor }),
       version: sql`version + 1`,
       updated_at: new Date(),
     })
