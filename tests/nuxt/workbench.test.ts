@@ -8,7 +8,8 @@ import WorkbenchForm from '~/components/workbench/WorkbenchForm.vue'
 import { correctionChain, MIL_STD_2194, NETA_100_18 } from '#shared/thermal'
 import { WORKBENCH_EXAMPLE } from '#shared/schemas/workbench'
 
-registerEndpoint('/api/auth/session', () => ({}))
+// The page sits behind the auth middleware: answer as a signed-in person.
+registerEndpoint('/api/auth/session', () => ({ user: { id: 'u-1', name: 'Test Person', email: 'test@example.org' }, expires: '2099-01-01T00:00:00.000Z' }))
 
 const K = (c: number) => c + 273.15
 const reading = {
