@@ -88,7 +88,7 @@ describe('the platform in a browser', () => {
     const me = await guest.page.evaluate(() => fetch('/api/orgs/vance-grid').then((r) => r.json()))
     expect(me.myRole).toBe('thermographer')
     await owner.page.goto('/orgs/vance-grid/members')
-    await owner.page.getByText('Omar Quist').waitFor()
+    await owner.page.getByRole('button', { name: 'Remove Omar Quist' }).waitFor()
     await owner.context.close()
     await guest.context.close()
   })
