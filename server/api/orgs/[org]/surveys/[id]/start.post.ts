@@ -1,0 +1,11 @@
+import { orgIdParamsSchema } from '#shared/schemas/organisation'
+import { surveyVersionSchema } from '#shared/schemas/survey'
+import { assertSurveyExists, startSurvey } from '~~/server/services/surveys'
+
+export default defineEventHandler(async (event) => {
+  const ctx = await requireMember(event, { permission: 'surveys.run' })
+  const { id } = paramsOf(event, orgIdParamsSchema)
+  await assertSurveyExists(ctx, id)
+  const { version } = await bodyOf(event, surveyVersionSchema)
+  return startSurvey(ctx, id, version)
+})
