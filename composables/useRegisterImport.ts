@@ -1,4 +1,5 @@
-import { splitCsv } from '#shared/csv'
+import { parseCsv, splitCsv } from '#shared/csv'
+import { IMPORT_CHUNK_MAX_CHARS } from '#shared/schemas/register'
 import type { ImportSummary } from '#shared/types/register'
 import { apiErrorOf } from '#shared/utils/field-errors'
 
@@ -58,7 +59,20 @@ export function useRegisterImport(org: Readonly<Ref<string | null>>) {
         stage.value = 'failed'
         return
       }
+      // Bytes that are not UTF-8 decode to U+FFFD: the file was saved in an older encoding, and accents would be lost.
+      if (text.includes('\uFFFD')) {
+        message.value = 'The file is not in UTF-8, so some letters cannot be read. In your spreadsheet, save it as "CSV UTF-8" and upload it again.'
+        stage.value = 'failed'
+        return
+      }
       const parts = splitCsv(text, PIECE_CHARS)
+      // A piece can only outgrow the limit when one record never ends, almost always a quote left open.
+      if (parts.some((p) => p.length > IMPORT_CHUNK_MAX_CHARS)) {
+        const first = parseCsv(text).errors[0]
+        message.value = first ? `Row ${first.record}: ${first.message}` : 'One row of the file is too long to read. Check it for a double quote (") that is never closed.'
+        stage.value = 'failed'
+        return
+      }
       totalChars.value = text.length
       pieces.value = parts.length
       const created = await send<ImportSummary>(base(), { kind, fileName: file.name, totalChars: text.length })

@@ -12,6 +12,8 @@ export interface SitesTable {
   voltage_kv: ColumnType<string | null, number | string | null | undefined, number | string | null>
   access_notes: Generated<string>
   safety_notes: Generated<string>
+  /** Structured safety facts shown wherever the site is visited (shared/register.ts SITE_SAFETY_FLAGS). */
+  safety_flags: Generated<string[]>
   archived_at: Date | null
   version: Generated<number>
   created_at: ColumnType<Date, never, never>

@@ -7,7 +7,7 @@ import { ROOT } from '../support/env'
 import { ORG_ROUTES, type OrgRoute } from '../support/org-routes'
 import { ROLES, can, type Role } from '../../shared/permissions'
 
-interface Tenant { owner: ApiClient; slug: string; ownerId: string; invitationId: string; members: Record<Role, ApiClient>; memberIds: Record<Role, string> }
+interface Tenant { owner: ApiClient; slug: string; ownerId: string; invitationId: string; members: Record<Role, ApiClient>; memberIds: Record<Role, string>; siteId: string; assetId: string; registerImportId: string; instrumentId: string; surfaceId: string; routeId: string; surveyId: string }
 
 let a: Tenant
 let b: Tenant
@@ -29,11 +29,22 @@ async function tenant(prefix: string): Promise<Tenant> {
   const list = (await owner.get(`/api/orgs/${slug}/members`)).body as Array<{ email: string; role: Role; userId: string }>
   const memberIds = Object.fromEntries(list.map((m) => [m.role, m.userId])) as Record<Role, string>
   const inv = await owner.post(`/api/orgs/${slug}/invitations`, { email: `${prefix}-pending@tenancy.test`, role: 'viewer' })
-  return { owner, slug, ownerId, invitationId: inv.body.id, members, memberIds }
+  // Register rows for routes that take a site, asset or import id.
+  const site = await owner.post(`/api/orgs/${slug}/sites`, { code: `${prefix}-S1`, name: `${prefix} site`, kind: 'substation', latitude: 54.4, longitude: -2.9 })
+  const asset = await owner.post(`/api/orgs/${slug}/assets`, { siteId: site.body.id, label: 'T1', assetClass: 'transformer' })
+  const upload = await owner.post(`/api/orgs/${slug}/register-imports`, { kind: 'sites', fileName: `${prefix}.csv`, totalChars: 20 })
+  // Programme rows for routes that take an instrument, surface or route id.
+  const instrument = await owner.post(`/api/orgs/${slug}/instruments`, { make: 'Halden', model: 'T1', serial: `${prefix}-1`, bandFromUm: 7.5, bandToUm: 14 })
+  const surface = await owner.post(`/api/orgs/${slug}/surfaces`, { name: `${prefix} clamp`, emissivity: 0.4, method: 'reference_emitter' })
+  const route = await owner.post(`/api/orgs/${slug}/routes`, { name: `${prefix} route`, baseName: 'Depot', baseLatitude: 54, baseLongitude: -3, recurrenceMonths: 12, siteIds: [site.body.id] })
+  // A survey for routes that take a survey id, run by the tenant's thermographer.
+  const survey = await owner.post(`/api/orgs/${slug}/surveys`, { plannedFor: '2026-12-02', thermographerId: memberIds.thermographer, instrumentId: instrument.body.id, routeId: route.body.id })
+  return { owner, slug, ownerId, invitationId: inv.body.id, members, memberIds, siteId: site.body.id, assetId: asset.body.id, registerImportId: upload.body.id, instrumentId: instrument.body.id, surfaceId: surface.body.id, routeId: route.body.id, surveyId: survey.body.id }
 }
 
 function fill(route: OrgRoute, slug: string, t: Tenant) {
-  const id = route.idKind === 'member' ? t.memberIds.viewer : route.idKind === 'invitation' ? t.invitationId : ''
+  const registerIds: Record<string, string> = { site: t.siteId, asset: t.assetId, registerImport: t.registerImportId, instrument: t.instrumentId, surface: t.surfaceId, route: t.routeId, survey: t.surveyId }
+  const id = route.idKind === 'member' ? t.memberIds.viewer : route.idKind === 'invitation' ? t.invitationId : registerIds[route.idKind ?? ''] ?? ''
   return route.path.replace(':org', slug).replace(':id', id)
 }
 

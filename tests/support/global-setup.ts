@@ -31,6 +31,9 @@ export default async function setup(project: TestProject) {
     // Migrations are TypeScript files loaded by Kysely's provider: run them through tsx, as the start script does.
     execFileSync('node', ['--import', 'tsx', 'scripts/migrate.ts'], { cwd: ROOT, env: { ...process.env, ...env }, stdio: 'inherit' })
     if (!existsSync(`${ROOT}${OUTPUT_DIR}/server/index.mjs`)) throw new Error(`No build in ${OUTPUT_DIR}: run \`npx nuxt build\` (npm run test:all does it).`)
+    // A stale server still answering on this port would be tested instead of the fresh build: refuse.
+    const stale = await fetch(`${baseUrl}/api/health`).then(() => true, () => false)
+    if (stale) throw new Error(`Something already answers on ${baseUrl}: stop it (or use another GREYBODY_TEST_PROFILE) and run again.`)
     mkdirSync(`${ROOT}.data/${PROFILE}/logs`, { recursive: true })
     const log = openSync(`${ROOT}.data/${PROFILE}/logs/app.log`, 'a')
     const child = spawn('node', [`${OUTPUT_DIR}/server/index.mjs`], {

@@ -1,0 +1,13 @@
+import { exportQuerySchema } from '#shared/schemas/register'
+import { exportAssets } from '~~/server/services/register-export'
+
+export default defineEventHandler(async (event) => {
+  const ctx = await requireMember(event, { permission: 'register.view' })
+  const { show } = queryOf(event, exportQuerySchema)
+  setResponseHeaders(event, {
+    'content-type': 'text/csv; charset=utf-8',
+    'content-disposition': `attachment; filename="${ctx.org.slug}-assets-${new Date().toISOString().slice(0, 10)}.csv"`,
+    'cache-control': 'no-store',
+  })
+  return sendStream(event, exportAssets(ctx.org.id, show))
+})
