@@ -118,9 +118,13 @@ describe('the platform in a browser', () => {
     await page.getByLabel('Organisation name').fill('Vance Contracting')
     await page.getByRole('button', { name: /Start/ }).click()
     await page.waitForURL('**/orgs/vance-contracting')
-    await page.getByRole('button', { name: /Organisation:/ }).click()
+    await page.waitForLoadState('networkidle')
     const choice = page.getByRole('banner').getByRole('link', { name: /Vance Grid/ })
-    await choice.waitFor({ state: 'visible' })
+    // The layout re-renders for the new organisation; open the switcher once it stays open.
+    for (let attempt = 0; attempt < 5 && !(await choice.isVisible()); attempt++) {
+      await page.getByRole('button', { name: /Organisation:/ }).click()
+      await choice.waitFor({ state: 'visible', timeout: 2_000 }).catch(() => undefined)
+    }
     await choice.click()
     await page.waitForURL('**/orgs/vance-grid')
     await page.getByRole('main').getByText('Vance Grid').first().waitFor()
