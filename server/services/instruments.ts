@@ -100,17 +100,10 @@ async function versioned(ctx: MemberContext, id: string, version: number, set: R
 
 /** Changes an instrument (optimistic locking on `version`). */
 export function updateInstrument(ctx: MemberContext, id: string, input: z.output<typeof instrumentUpdateSchema>): Promise<InstrumentItem> {
-  const set: Record<string, unknown> = {}
-  if (input.make !== undefined) set.make = input.make
-  if (input.model !== undefined) set.model = input.model
-  if (input.serial !== undefined) set.serial = input.serial
-  if (input.bandFromUm !== undefined) set.band_from_um = input.bandFromUm
-  if (input.bandToUm !== undefined) set.band_to_um = input.bandToUm
-  if (input.ifovMrad !== undefined) set.ifov_mrad = input.ifovMrad
-  if (input.accuracyK !== undefined) set.accuracy_k = input.accuracyK
-  if (input.accuracyPct !== undefined) set.accuracy_pct = input.accuracyPct
-  if (input.calibrationDue !== undefined) set.calibration_due = input.calibrationDue
-  if (input.notes !== undefined) set.notes = input.notes
+  const set = changedColumns(input, {
+    make: 'make', model: 'model', serial: 'serial', bandFromUm: 'band_from_um', bandToUm: 'band_to_um', ifovMrad: 'ifov_mrad',
+    accuracyK: 'accuracy_k', accuracyPct: 'accuracy_pct', calibrationDue: 'calibration_due', notes: 'notes',
+  })
   return versioned(ctx, id, input.version, set)
 }
 

@@ -179,15 +179,10 @@ export async function updateRoute(ctx: MemberContext, id: string, input: z.outpu
       instrumentId: input.instrumentId !== current.instrument_id ? input.instrumentId : undefined,
       siteIds: input.siteIds,
     })
-    const set: Record<string, unknown> = {}
-    if (input.name !== undefined) set.name = input.name
-    if (input.baseName !== undefined) set.base_name = input.baseName
-    if (input.baseLatitude !== undefined) set.base_latitude = input.baseLatitude
-    if (input.baseLongitude !== undefined) set.base_longitude = input.baseLongitude
-    if (input.recurrenceMonths !== undefined) set.recurrence_months = input.recurrenceMonths
-    if (input.thermographerId !== undefined) set.thermographer_id = input.thermographerId
-    if (input.instrumentId !== undefined) set.instrument_id = input.instrumentId
-    if (input.notes !== undefined) set.notes = input.notes
+    const set = changedColumns(input, {
+      name: 'name', baseName: 'base_name', baseLatitude: 'base_latitude', baseLongitude: 'base_longitude',
+      recurrenceMonths: 'recurrence_months', thermographerId: 'thermographer_id', instrumentId: 'instrument_id', notes: 'notes',
+    })
     await trx.updateTable('routes').set({ ...set, version: sql`version + 1`, updated_at: new Date() })
       .where('organisation_id', '=', ctx.org.id).where('id', '=', id).execute()
     if (input.siteIds !== undefined) await writeStops(trx, ctx.org.id, id, input.siteIds)

@@ -84,15 +84,9 @@ async function measuredOnly(ctx: MemberContext, id: string): Promise<SurfaceItem
 /** Changes a measured value (optimistic locking on `version`). */
 export async function updateSurface(ctx: MemberContext, id: string, input: z.output<typeof surfaceUpdateSchema>): Promise<SurfaceItem> {
   const current = await measuredOnly(ctx, id)
-  const set: Record<string, unknown> = {}
-  if (input.name !== undefined) set.name = input.name
-  if (input.emissivity !== undefined) set.emissivity = input.emissivity
-  if (input.method !== undefined) {
-    set.method = input.method
-    set.source = measuredSource(current.createdBy ?? ctx.user.name, input.method)
-  }
-  if (input.measuredOn !== undefined) set.measured_on = input.measuredOn
-  if (input.notes !== undefined) set.notes = input.notes
+  const set = changedColumns(input, { name: 'name', emissivity: 'emissivity', method: 'method', measuredOn: 'measured_on', notes: 'notes' })
+  // The source text names the method, so it follows a change of method.
+  if (input.method !== undefined) set.source = measuredSource(current.createdBy ?? ctx.user.name, input.method)
   const row = await useDb().updateTable('surfaces')
     .set({ ...set, version: sql`version + 1`, updated_at: new Date() })
     .where('organisation_id', '=', ctx.org.id).where('id', '=', id).where('version', '=', input.version).where('archived_at', 'is', null)
