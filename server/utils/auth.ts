@@ -46,6 +46,11 @@ export async function requireUser(event: H3Event): Promise<SessionUser> {
     .where('id', '=', id)
     .executeTakeFirst()
   if (!row) throw unauthenticated()
+  // A password change or reset ends every session opened before it (a stolen session dies with the old password).
+  const authAt = Number((session as { authAt?: number }).authAt ?? 0)
+  if (authAt < new Date(row.password_changed_at).getTime() - 1000) {
+    throw createError({ statusCode: 401, statusMessage: 'Session ended', data: { message: 'Your password was changed, so this session has ended. Please sign in again.' } })
+  }
   const user: SessionUser = {
     id: row.id,
     email: row.email,

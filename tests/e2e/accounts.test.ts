@@ -95,6 +95,22 @@ describe('profile and password', () => {
     const fresh = new ApiClient()
     await fresh.signIn('eli@accounts.test', 'a brand new password')
     expect(fresh.hasSession()).toBe(true)
+    expect((await fresh.get('/api/account/me')).status).toBe(200)
+  })
+
+  it('ends every session opened before a password change', async () => {
+    const { client: laptop } = await signUpOwner('Ivo Kent', 'ivo@accounts.test', 'Ivo Grid')
+    const phone = new ApiClient()
+    await phone.signIn('ivo@accounts.test', 'correct horse battery')
+    expect((await phone.get('/api/account/me')).status).toBe(200)
+    await new Promise((r) => setTimeout(r, 1100))
+    const changed = await laptop.post('/api/account/password', { currentPassword: 'correct horse battery', newPassword: 'ivo newer password' })
+    expect(changed.status).toBe(200)
+    const stale = await phone.get('/api/account/me')
+    expect(stale.status).toBe(401)
+    expect(stale.body.data.message).toMatch(/password was changed/)
+    await phone.signIn('ivo@accounts.test', 'ivo newer password')
+    expect((await phone.get('/api/account/me')).status).toBe(200)
   })
 })
 

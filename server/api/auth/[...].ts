@@ -40,14 +40,17 @@ export default NuxtAuthHandler({
       }
     },
     jwt({ token, user }) {
+      // authAt is set once, at sign-in (next-auth re-stamps iat on every refresh): sessions older than the last
+      // password change are refused by requireUser.
       if (user) {
         token.sub = user.id
-        token.iat = Math.floor(Date.now() / 1000)
+        token.authAt = Date.now()
       }
       return token
     },
     session({ session, token }) {
       ;(session.user as Record<string, unknown>).id = token.sub
+      ;(session as Record<string, unknown>).authAt = token.authAt
       return session
     },
   },
