@@ -1,11 +1,16 @@
+import { z } from 'zod'
+
+const signInKeySchema = z.object({ email: z.string().max(254) })
+
 // Rate-limits credential sign-ins per e-mail and per client address before next-auth sees them.
 export default defineEventHandler(async (event) => {
   if (event.method !== 'POST' || !event.path.startsWith('/api/auth/callback/credentials')) return
   // The address comes from the connection (or a trusted proxy), never from a header the client chose.
   const address = clientAddress(event)
   event.node.req.headers[CLIENT_ADDRESS_HEADER] = address
-  const body = (await readBody(event).catch(() => ({}))) as Record<string, unknown> | undefined
-  const email = String(body?.email ?? '').trim().toLowerCase()
+  // Only the e-mail matters here (the rate-limit key); a malformed body still counts against the address.
+  const parsed = signInKeySchema.safeParse(await readBody(event).catch(() => ({})))
+  const email = parsed.success ? parsed.data.email.trim().toLowerCase() : ''
   const { blocked, retryAfterSeconds } = await signInBlocked(email, address)
   if (!blocked) return
   const minutes = Math.ceil(retryAfterSeconds / 60)

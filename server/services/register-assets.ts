@@ -169,17 +169,12 @@ export async function updateAsset(ctx: MemberContext, id: string, input: AssetUp
   try {
     const row = await db.updateTable('assets')
       .set({
-        ...(input.siteId !== undefined && { site_id: input.siteId }),
-        ...(input.label !== undefined && { label: input.label }),
-        ...(input.assetClass !== undefined && { asset_class: input.assetClass }),
-        ...(input.manufacturer !== undefined && { manufacturer: input.manufacturer }),
-        ...(input.model !== undefined && { model: input.model }),
-        ...(input.voltageKv !== undefined && { voltage_kv: input.voltageKv }),
-        ...(input.ratedCurrentA !== undefined && { rated_current_a: input.ratedCurrentA }),
-        ...(input.criticality !== undefined && { criticality: input.criticality }),
-        ...(input.condition !== undefined && { condition: input.condition }),
-        ...(input.components !== undefined && { components: input.components }),
-        ...(input.intervalMonths !== undefined && { interval_months: input.intervalMonths }),
+        ...changedColumns(input, {
+          siteId: 'site_id', label: 'label', assetClass: 'asset_class', manufacturer: 'manufacturer',
+          model: 'model', voltageKv: 'voltage_kv', ratedCurrentA: 'rated_current_a',
+          criticality: 'criticality', condition: 'condition', components: 'components',
+          intervalMonths: 'interval_months',
+        }),
         version: sql`version + 1`,
         updated_at: new Date(),
       })

@@ -93,15 +93,11 @@ export async function updateSite(ctx: MemberContext, id: string, input: SiteUpda
   try {
     const row = await useDb().updateTable('sites')
       .set({
-        ...(input.code !== undefined && { code: input.code }),
-        ...(input.name !== undefined && { name: input.name }),
-        ...(input.kind !== undefined && { kind: input.kind }),
-        ...(input.latitude !== undefined && { latitude: input.latitude }),
-        ...(input.longitude !== undefined && { longitude: input.longitude }),
-        ...(input.voltageKv !== undefined && { voltage_kv: input.voltageKv }),
-        ...(input.accessNotes !== undefined && { access_notes: input.accessNotes }),
-        ...(input.safetyNotes !== undefined && { safety_notes: input.safetyNotes }),
-        ...(input.safetyFlags !== undefined && { safety_flags: input.safetyFlags }),
+        ...changedColumns(input, {
+          code: 'code', name: 'name', kind: 'kind', latitude: 'latitude', longitude: 'longitude',
+          voltageKv: 'voltage_kv', accessNotes: 'access_notes', safetyNotes: 'safety_notes',
+          safetyFlags: 'safety_flags',
+        }),
         version: sql`version + 1`,
         updated_at: new Date(),
       })
