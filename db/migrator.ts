@@ -13,7 +13,8 @@ export function connect<T = any>(connectionString: string, max = 5): Kysely<T> {
 
 /** Applies every pending migration under db/migrations; throws on the first failure. */
 export async function migrateToLatest(db: Kysely<any>): Promise<string[]> {
-  const migrator = new Migrator({ db, provider: new FileMigrationProvider({ fs, path, migrationFolder }) })
+  // Unordered: migrations written on parallel branches may land with earlier timestamps than ones already applied.
+  const migrator = new Migrator({ db, provider: new FileMigrationProvider({ fs, path, migrationFolder }), allowUnorderedMigrations: true })
   const { error, results } = await migrator.migrateToLatest()
   if (error) throw error
   return (results ?? []).filter((r) => r.status === 'Success').map((r) => r.migrationName)
