@@ -11,6 +11,7 @@ import { mapHeader, readAssetRow, readSiteRow, rowKeys, type HeaderMap } from '#
 import { IMPORT_MAX_ROWS, type ImportCreateInput } from '#shared/schemas/register'
 import type { ImportProblemItem, ImportSummary } from '#shared/types/register'
 import { isUniqueViolation, pageWindow } from './paging'
+import { assertSiteRoom } from './plan-limits'
 
 type Trx = Transaction<Database>
 
@@ -220,6 +221,7 @@ export async function commitImport(ctx: MemberContext, id: string): Promise<Impo
           .where('organisation_id', '=', ctx.org.id).where('id', '=', id).execute()
         return
       }
+      if (session.kind === 'sites') await assertSiteRoom(trx, ctx.org.id, session.row_count)
       const inserted = session.kind === 'sites' ? await insertSites(trx, ctx.org.id, id) : await insertAssets(trx, ctx.org.id, id)
       if (inserted !== session.row_count) throw new Error(`import ${id}: staged ${session.row_count} rows, inserted ${inserted}`)
       await trx.deleteFrom('register_import_rows').where('organisation_id', '=', ctx.org.id).where('import_id', '=', id).execute()

@@ -6,6 +6,7 @@ import type { SiteListQuery, SiteUpdateInput, SiteValues } from '#shared/schemas
 import type { RegisterPage, SiteItem } from '#shared/types/register'
 import { changedMeanwhile, isUniqueViolation, likePattern, pageWindow } from './paging'
 import { siteView } from './register-views'
+import { assertSiteRoom } from './plan-limits'
 
 type Db = Kysely<Database> | Transaction<Database>
 
@@ -68,19 +69,23 @@ export async function getSite(ctx: MemberContext, id: string): Promise<SiteItem>
 /** Adds a site; the code must be new in the organisation. */
 export async function createSite(ctx: MemberContext, input: SiteValues): Promise<SiteItem> {
   try {
-    const { id } = await useDb().insertInto('sites').values({
-      organisation_id: ctx.org.id,
-      code: input.code,
-      name: input.name,
-      kind: input.kind,
-      latitude: input.latitude,
-      longitude: input.longitude,
-      voltage_kv: input.voltageKv,
-      access_notes: input.accessNotes,
-      safety_notes: input.safetyNotes,
-      safety_flags: input.safetyFlags,
-      archived_at: null,
-    }).returning('id').executeTakeFirstOrThrow()
+    const id = await useDb().transaction().execute(async (trx) => {
+      await assertSiteRoom(trx, ctx.org.id, 1)
+      const row = await trx.insertInto('sites').values({
+        organisation_id: ctx.org.id,
+        code: input.code,
+        name: input.name,
+        kind: input.kind,
+        latitude: input.latitude,
+        longitude: input.longitude,
+        voltage_kv: input.voltageKv,
+        access_notes: input.accessNotes,
+        safety_notes: input.safetyNotes,
+        safety_flags: input.safetyFlags,
+        archived_at: null,
+      }).returning('id').executeTakeFirstOrThrow()
+      return row.id
+    })
     return getSite(ctx, id)
   } catch (err) {
     if (isUniqueViolation(err, 'sites_org_code_key')) codeTaken(input.code)
@@ -132,6 +137,7 @@ export async function setSiteArchived(ctx: MemberContext, id: string, version: n
       await trx.updateTable('assets').set({ archived_at: now, updated_at: now, version: sql`version + 1` })
         .where('organisation_id', '=', ctx.org.id).where('site_id', '=', id).where('archived_at', 'is', null).execute()
     } else {
+      await assertSiteRoom(trx, ctx.org.id, 1)
       await trx.updateTable('assets').set({ archived_at: null, updated_at: now, version: sql`version + 1` })
         .where('organisation_id', '=', ctx.org.id).where('site_id', '=', id)
         // Compared in SQL: the stored timestamp has microseconds a JavaScript Date would round away.

@@ -1,6 +1,6 @@
 import { beforeAll, describe, expect, it } from 'vitest'
 import { ApiClient, linkIn, mailFor, signUpOwner } from '../support/api'
-import { resetDatabase } from '../support/db'
+import { resetDatabase, testDb } from '../support/db'
 import { createAsset, createSite, siteBody } from '../support/register'
 
 let owner: ApiClient
@@ -126,6 +126,9 @@ describe('the site list', () => {
   let client: ApiClient
   beforeAll(async () => {
     ;({ client, slug: org } = await signUpOwner('Lis Tor', 'lis@sites.test', 'List Utility'))
+    // 30 sites is past the trial's 25 (tests/e2e/plan-limits.test.ts): this organisation is on the Utility plan.
+    await testDb().updateTable('organisation_billing').set({ plan: 'utility' })
+      .where('organisation_id', '=', (eb) => eb.selectFrom('organisations').select('id').where('slug', '=', org)).execute()
     const kinds = ['substation', 'switchyard', 'plant_room', 'line_section'] as const
     for (let i = 1; i <= 30; i++) {
       await createSite(client, org, {
