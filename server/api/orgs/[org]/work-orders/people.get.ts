@@ -1,0 +1,6 @@
+import { workOrderPeople } from '~~/server/services/work-orders'
+
+export default defineEventHandler(async (event) => {
+  const ctx = await requireMember(event, { permission: 'workorders.view' })
+  return workOrderPeople(ctx)
+})
