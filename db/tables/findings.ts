@@ -36,6 +36,17 @@ export interface FindingsTable {
   warnings: ColumnType<unknown, string, string>
   criteria_id: string
   criteria_version: number
+  /** A manager's corrected band (1..4) with its reason, who and when; `band` keeps what the engine computed. */
+  reviewed_band: number | null
+  review_reason: string | null
+  reviewed_by: string | null
+  reviewed_at: Date | null
+  /** Set when a repair's verification passed; an open finding has closed_at null. */
+  closed_at: Date | null
+  closed_reason: string | null
+  /** The surface-library entry whose ε was used, if one was picked. */
+  surface_id: string | null
+  archived_at: Date | null
   version: Generated<number>
   created_at: ColumnType<Date, never, never>
   updated_at: ColumnType<Date, Date | string | undefined, Date | string>

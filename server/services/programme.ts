@@ -3,7 +3,7 @@ import type { z } from 'zod'
 import type { Database } from '~~/db/database'
 import type { programmeAssetQuerySchema, programmeGroupQuerySchema } from '#shared/schemas/programme'
 import type { MapSite, Page, ProgrammeAssetRow, ProgrammeGroupRow, ProgrammeSummary, SiteSummary } from '#shared/types/programme'
-import { assetDueSql, siteWorstBandSql } from './schedule-sql'
+import { assetDueSql, siteOpenFindingsSql, siteWorstBandSql } from './schedule-sql'
 import { likePattern, num, pageWindow } from './paging'
 import { programmeSettings } from './programme-settings'
 
@@ -21,7 +21,7 @@ function dueAssets(qc: QueryCreator<Database>, orgId: string, today: string) {
       d.reason.as('interval_reason'),
       d.dueOn.as('due_on'),
       d.baseline.as('baseline'),
-      sql<string | null>`null::date`.as('last_checked_on'),
+      d.lastCheckedOn.as('last_checked_on'),
     ])
     .where('a.organisation_id', '=', orgId)
     .where('a.archived_at', 'is', null)
@@ -222,6 +222,7 @@ export async function siteSummary(ctx: MemberContext, siteId: string): Promise<S
   const site = await db.selectFrom('sites as s')
     .select(['s.id', 's.code', 's.name', 's.kind', 's.voltage_kv', 's.latitude', 's.longitude', 's.access_notes', 's.safety_notes'])
     .select(siteWorstBandSql().as('worst_band'))
+    .select(siteOpenFindingsSql().as('open_findings'))
     .where('s.organisation_id', '=', ctx.org.id).where('s.id', '=', siteId)
     .executeTakeFirst()
   if (!site) throw notFound('Site')
@@ -248,8 +249,8 @@ export async function siteSummary(ctx: MemberContext, siteId: string): Promise<S
     latitude: site.latitude, longitude: site.longitude, accessNotes: site.access_notes, safetyNotes: site.safety_notes, today,
     assets: Number(counts.assets), overdue: Number(counts.overdue), baseline: Number(counts.baseline),
     due30: Number(counts.due30), due90: Number(counts.due90), nextDue: counts.next_due,
-    // Findings arrive with a later feature; until then no site has an open finding.
-    openFindings: 0,
+    // Findings not closed by a passed verification, on submitted or reviewed surveys.
+    openFindings: Number(site.open_findings ?? 0),
     worstBand: (site.worst_band ?? null) as Band | null,
     routes,
     upcoming: upcoming.map((u) => ({ id: u.id, label: u.label, dueOn: u.due_text, baseline: u.baseline, intervalMonths: Number(u.interval_months) })),

@@ -36,25 +36,78 @@ export function dueSql(i: DueSqlInputs) {
   return { months, reason, dueOn, baseline }
 }
 
+// Checks that count for the schedule: an asset looked at (clear or finding) on a survey handed in or reviewed.
+const COUNTED_SURVEY_STATES = sql`('submitted', 'reviewed')`
+
 /**
- * Where the schedule's inputs come from for an asset aliased `a` in an organisation aliased `o`. Checks and
- * findings arrive with a later feature: it replaces these two expressions with subqueries on its tables.
+ * Local date (organisation `o`'s time zone) of the last check of asset `a`: clear or finding, on a submitted or
+ * reviewed survey that is not archived. Not reached does not count as a check.
  */
-export function assetDueSql(today: string) {
-  return dueSql({
-    condition: sql.ref('a.condition'),
-    assetIntervalMonths: sql.ref('a.interval_months'),
-    lastCheckedOn: sql`null::date`,
-    openFindingBand: sql`null::smallint`,
-    normalMonths: sql.ref('o.interval_months_normal'),
-    condition3Months: sql.ref('o.interval_months_condition3'),
-    monitorBands: sql.ref('o.monitor_bands'),
-    monitorFactor: sql.ref('o.monitor_factor'),
-    today: sql`${today}::date`,
-  })
+export function lastCheckedOnSql() {
+  return sql<string | null>`(
+    select max((c.created_at at time zone o.time_zone)::date)
+    from checks c
+    join surveys sv on sv.organisation_id = c.organisation_id and sv.id = c.survey_id
+    where c.organisation_id = a.organisation_id and c.asset_id = a.id
+      and c.outcome in ('clear', 'finding')
+      and sv.state in ${COUNTED_SURVEY_STATES} and sv.archived_at is null
+  )`
 }
 
-/** Worst open band of a site aliased `s`; null until findings exist (a later feature supplies the subquery). */
+/** Open findings (not closed, not archived) of submitted or reviewed surveys, with `eb` their effective band. */
+function openFindingsFrom(where: RawBuilder<unknown>) {
+  return sql`
+    from findings f
+    join checks c on c.organisation_id = f.organisation_id and c.id = f.check_id
+    join surveys sv on sv.organisation_id = c.organisation_id and sv.id = c.survey_id
+    cross join lateral (select coalesce(f.reviewed_band, f.band) as eb) x
+    where ${where}
+      and f.closed_at is null and f.archived_at is null
+      and sv.state in ${COUNTED_SURVEY_STATES} and sv.archived_at is null`
+}
+
+/**
+ * The open-finding band that drives asset `a`'s interval: a band that shortens the interval (organisation `o`'s
+ * monitor bands) when any open finding is in one, else the worst open band; null without open findings. A
+ * reviewed band replaces the computed one.
+ */
+export function openFindingBandSql() {
+  const mine = sql`f.organisation_id = a.organisation_id and c.asset_id = a.id`
+  return sql<number | null>`coalesce(
+    (select min(x.eb) ${openFindingsFrom(mine)} and x.eb = any(o.monitor_bands)),
+    (select min(x.eb) ${openFindingsFrom(mine)})
+  )::smallint`
+}
+
+/** Where the schedule's inputs come from for an asset aliased `a` in an organisation aliased `o`. */
+export function assetDueSql(today: string) {
+  const lastCheckedOn = lastCheckedOnSql()
+  return {
+    ...dueSql({
+      condition: sql.ref('a.condition'),
+      assetIntervalMonths: sql.ref('a.interval_months'),
+      lastCheckedOn,
+      openFindingBand: openFindingBandSql(),
+      normalMonths: sql.ref('o.interval_months_normal'),
+      condition3Months: sql.ref('o.interval_months_condition3'),
+      monitorBands: sql.ref('o.monitor_bands'),
+      monitorFactor: sql.ref('o.monitor_factor'),
+      today: sql`${today}::date`,
+    }),
+    lastCheckedOn,
+  }
+}
+
+/** Worst open band (reviewed band first) of the active assets at a site aliased `s`; null without open findings. */
 export function siteWorstBandSql() {
-  return sql<number | null>`null::smallint`
+  const atSite = sql`f.organisation_id = s.organisation_id and c.asset_id in (
+    select a2.id from assets a2 where a2.organisation_id = s.organisation_id and a2.site_id = s.id and a2.archived_at is null)`
+  return sql<number | null>`(select min(x.eb) ${openFindingsFrom(atSite)})::smallint`
+}
+
+/** How many open findings the active assets at a site aliased `s` hold. */
+export function siteOpenFindingsSql() {
+  const atSite = sql`f.organisation_id = s.organisation_id and c.asset_id in (
+    select a2.id from assets a2 where a2.organisation_id = s.organisation_id and a2.site_id = s.id and a2.archived_at is null)`
+  return sql<number>`(select count(*) ${openFindingsFrom(atSite)})::int`
 }

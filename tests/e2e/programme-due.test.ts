@@ -4,7 +4,7 @@ import { ApiClient, signUpOwner } from '../support/api'
 import { resetDatabase, testDb } from '../support/db'
 import { insertAssets, insertSites, orgIdOf } from '../support/programme-fixtures'
 import { dueSql } from '../../server/services/schedule-sql'
-import { intervalMonths, nextDue, todayIn, type Band, type Condition, type ScheduleRule } from '../../shared/schedule'
+import { addMonths, intervalMonths, nextDue, todayIn, type Band, type Condition, type ScheduleRule } from '../../shared/schedule'
 
 let owner: ApiClient
 let slug: string
@@ -161,5 +161,63 @@ describe('programme lists', () => {
     expect(summary.body.upcoming.map((u: { label: string; intervalMonths: number }) => [u.label, u.intervalMonths])).toEqual([['A-1', 12], ['A-2', 12], ['A-3', 6]])
     const { slug: otherSlug, client: other } = await signUpOwner('Eve Else', 'eve@due.test', 'Eve Elsewhere')
     expect((await other.get(`/api/orgs/${otherSlug}/programme/sites/${sites.AAA}`)).status).toBe(404)
+  })
+})
+
+describe('checks and open findings in the schedule', () => {
+  // Site BBB: B-1 (condition 1, own interval 24 months) and B-2 (condition 3, own interval 3 months).
+  let surveyId: string
+  let findingId: string
+  let ownerId: string
+
+  it('counts only checks of submitted or reviewed surveys', async () => {
+    ownerId = (await testDb().selectFrom('users').select('id').where('email', '=', 'di@due.test').executeTakeFirstOrThrow()).id
+    const inst = await owner.post(`/api/orgs/${slug}/instruments`, { make: 'Halden', model: 'T8', serial: 'DUE-1', bandFromUm: 8, bandToUm: 14 })
+    const s = await owner.post(`/api/orgs/${slug}/surveys`, { plannedFor: today, thermographerId: ownerId, instrumentId: inst.body.id, siteIds: [sites.BBB] })
+    expect(s.status, JSON.stringify(s.body)).toBe(201)
+    surveyId = s.body.id
+    const started = await owner.post(`/api/orgs/${slug}/surveys/${surveyId}/start`, { version: s.body.version })
+    // reference sheet §5 [C]: ε 0.5, 50 °C apparent, 20 °C reflected → 74.3 °C, 54 K over ambient: band 1 (ANSI/NETA Table 100.18).
+    const f = await owner.post(`/api/orgs/${slug}/surveys/${surveyId}/findings`, {
+      assetId: assets['B-1'], component: 'Bushing clamp', apparentC: 50, ambientC: 20, emissivity: 0.5, reflectedC: 20, reflectedMethod: 'reflector', probableCause: 'loose_connection',
+    })
+    expect(f.status, JSON.stringify(f.body)).toBe(201)
+    expect(f.body.band).toBe(1)
+    findingId = f.body.id
+    await owner.post(`/api/orgs/${slug}/surveys/${surveyId}/checks`, { assetId: assets['B-2'], outcome: 'clear' })
+    // Still in progress: nothing counts yet.
+    const during = await owner.get(`/api/orgs/${slug}/programme/assets?siteId=${sites.BBB}`)
+    for (const a of during.body.items) expect(a).toMatchObject({ lastCheckedOn: null, baseline: true })
+    const detail = await owner.get(`/api/orgs/${slug}/surveys/${surveyId}`)
+    expect(started.status).toBe(200)
+    expect((await owner.post(`/api/orgs/${slug}/surveys/${surveyId}/submit`, { version: detail.body.version })).status).toBe(200)
+    const after = await owner.get(`/api/orgs/${slug}/programme/assets?siteId=${sites.BBB}`)
+    const byLabel = Object.fromEntries(after.body.items.map((a: { label: string }) => [a.label, a]))
+    // A band-1 finding is not a monitor band (default [2]): the asset's own 24 months stand.
+    expect(byLabel['B-1']).toMatchObject({ lastCheckedOn: today, baseline: false, intervalMonths: 24, intervalReason: 'asset override', dueOn: addMonths(today, 24) })
+    expect(byLabel['B-2']).toMatchObject({ lastCheckedOn: today, baseline: false, intervalMonths: 3, intervalReason: 'asset override', dueOn: addMonths(today, 3) })
+  })
+
+  it('shortens the interval for an open finding in a monitor band, using the reviewed band', async () => {
+    const f = await testDb().selectFrom('findings').select('version').where('id', '=', findingId).executeTakeFirstOrThrow()
+    const ranked = await owner.post(`/api/orgs/${slug}/findings/${findingId}/rank`, { band: 2, reason: 'Clamp was re-made last month; watch it rather than repair now.', version: f.version })
+    expect(ranked.status, JSON.stringify(ranked.body)).toBe(200)
+    const res = await owner.get(`/api/orgs/${slug}/programme/assets?siteId=${sites.BBB}`)
+    const b1 = res.body.items.find((a: { label: string }) => a.label === 'B-1')
+    // 24 months halved while a band-2 finding stays open (common practice, DEFAULT_SCHEDULE_RULE).
+    expect(b1).toMatchObject({ intervalMonths: 12, intervalReason: 'open finding', dueOn: addMonths(today, 12) })
+    const summary = await owner.get(`/api/orgs/${slug}/programme/sites/${sites.BBB}`)
+    expect(summary.body).toMatchObject({ openFindings: 1, worstBand: 2 })
+    const map = await owner.get(`/api/orgs/${slug}/programme/map`)
+    expect(map.body.sites.find((s: { code: string }) => s.code === 'BBB').worstBand).toBe(2)
+    expect(map.body.sites.find((s: { code: string }) => s.code === 'AAA').worstBand).toBe(null)
+  })
+
+  it('stops counting a finding once it is closed', async () => {
+    await testDb().updateTable('findings').set({ closed_at: new Date(), closed_reason: 'verified in test' }).where('id', '=', findingId).execute()
+    const res = await owner.get(`/api/orgs/${slug}/programme/assets?siteId=${sites.BBB}`)
+    expect(res.body.items.find((a: { label: string }) => a.label === 'B-1')).toMatchObject({ intervalMonths: 24, intervalReason: 'asset override' })
+    const summary = await owner.get(`/api/orgs/${slug}/programme/sites/${sites.BBB}`)
+    expect(summary.body).toMatchObject({ openFindings: 0, worstBand: null })
   })
 })

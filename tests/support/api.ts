@@ -22,8 +22,8 @@ export class ApiClient {
     }
   }
 
-  async request<T = any>(method: string, path: string, body?: unknown, form = false): Promise<ApiResponse<T>> {
-    const headers: Record<string, string> = { accept: 'application/json', cookie: this.cookieHeader() }
+  async request<T = any>(method: string, path: string, body?: unknown, form = false, extraHeaders: Record<string, string> = {}): Promise<ApiResponse<T>> {
+    const headers: Record<string, string> = { accept: 'application/json', cookie: this.cookieHeader(), ...extraHeaders }
     let payload: string | undefined
     if (body !== undefined) {
       headers['content-type'] = form ? 'application/x-www-form-urlencoded' : 'application/json'

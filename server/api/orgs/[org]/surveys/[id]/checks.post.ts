@@ -6,5 +6,7 @@ export default defineEventHandler(async (event) => {
   const ctx = await requireMember(event, { permission: 'surveys.run' })
   const { id } = paramsOf(event, orgIdParamsSchema)
   await assertSurveyExists(ctx, id)
-  return recordCheck(ctx, id, await bodyOf(event, checkSchema))
+  const input = await bodyOf(event, checkSchema)
+  // Sent again from the offline queue with the same key: answered once, written once.
+  return withIdempotency(event, ctx, () => recordCheck(ctx, id, input))
 })

@@ -6,5 +6,7 @@ export default defineEventHandler(async (event) => {
   const ctx = await requireMember(event, { permission: 'surveys.run' })
   const { id } = paramsOf(event, orgIdParamsSchema)
   await assertSurveyExists(ctx, id)
-  return recordConditions(ctx, id, await bodyOf(event, surveyConditionsSchema))
+  const input = await bodyOf(event, surveyConditionsSchema)
+  // Sent again from the offline queue with the same key: answered once, written once.
+  return withIdempotency(event, ctx, () => recordConditions(ctx, id, input))
 })
