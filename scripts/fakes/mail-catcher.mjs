@@ -9,7 +9,7 @@ import { SMTPServer } from 'smtp-server'
 import { simpleParser } from 'mailparser'
 
 /**
- * @typedef {{ id: string, from: string, to: string[], subject: string, text: string, html: string, date: string }} CaughtMessage
+ * @typedef {{ id: string, from: string, to: string[], subject: string, text: string, html: string, date: string, headers?: Record<string, string> }} CaughtMessage
  * @typedef {{ smtpPort: number, httpPort: number, smtpUrl: string, httpUrl: string, messages: () => CaughtMessage[], clear: () => void, close: () => Promise<void> }} MailCatcher
  */
 
@@ -43,6 +43,8 @@ export async function startMailCatcher({ smtpPort = 0, httpPort = 0, host = '127
             text: parsed.text ?? '',
             html: typeof parsed.html === 'string' ? parsed.html : '',
             date: (parsed.date ?? new Date()).toISOString(),
+            // Raw header values by lower-case name (unfolded), e.g. for the List-Unsubscribe headers of notices.
+            headers: Object.fromEntries((parsed.headerLines ?? []).map((h) => [h.key, h.line.slice(h.line.indexOf(':') + 1).replace(/\r?\n(?=[ \t])/g, '').trim()])),
           }
           store.push(message)
           if (store.length > maxMessages) store = store.slice(-maxMessages)

@@ -38,7 +38,9 @@ export default async function setup(project: TestProject) {
     const log = openSync(`${ROOT}.data/${PROFILE}/logs/app.log`, 'a')
     const child = spawn('node', [`${OUTPUT_DIR}/server/index.mjs`], {
       cwd: ROOT,
-      env: { ...process.env, ...env, NODE_ENV: 'production', BCRYPT_ROUNDS: '4' },
+      // Notices: no clock-driven scheduler or outbox worker in the shared server; tests run both through the
+      // test hook (POST /api/dev/notices/run, enabled by NUXT_TEST_HOOKS) with a chosen clock.
+      env: { ...process.env, ...env, NODE_ENV: 'production', BCRYPT_ROUNDS: '4', NUXT_SCHEDULER: 'off', NUXT_OUTBOX_WORKER: 'off', NUXT_TEST_HOOKS: '1' },
       stdio: ['ignore', log, log],
     })
     shared.__greybodyServer = { child, users: 1 }
