@@ -18,6 +18,8 @@ export interface MemberContext {
   user: SessionUser
   org: { id: string; slug: string; name: string }
   member: { role: Role; since: Date }
+  /** Set when the request came with an organisation API token instead of a session (server/utils/api-tokens.ts). */
+  token?: { id: string; name: string; scope: 'read' | 'read_write' }
 }
 
 /** Checks an e-mail and password; null when either is wrong (the caller cannot tell which). */
@@ -72,6 +74,12 @@ export async function requireMember(
   // allowWhenReadOnly: for the few writes a lapsed organisation must still make (paying, exports sent as POST).
   opts: { permission: Permission; allowWhenReadOnly?: boolean },
 ): Promise<MemberContext> {
+  // An `Authorization: Bearer` header means an API token: no session is read, and the token alone decides.
+  const bearer = bearerOf(event)
+  if (bearer !== null) {
+    const tokenSlug = orgSlugSchema.safeParse(getRouterParam(event, 'org'))
+    return requireTokenMember(event, bearer, tokenSlug.success ? tokenSlug.data : null, opts)
+  }
   const user = await requireUser(event)
   const slug = orgSlugSchema.safeParse(getRouterParam(event, 'org'))
   if (!slug.success) throw notFound('Organisation')
