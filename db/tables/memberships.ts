@@ -6,6 +6,8 @@ export interface MembershipsTable {
   user_id: string
   role: Role
   removed_at: Date | null
+  /** The thermographer's qualification as recorded by the organisation; printed on survey reports. */
+  qualification: Generated<string>
   version: Generated<number>
   created_at: ColumnType<Date, never, never>
   updated_at: ColumnType<Date, Date | string | undefined, Date | string>

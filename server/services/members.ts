@@ -4,19 +4,19 @@ import type { Role } from '#shared/permissions'
 import { takesSeat } from '#shared/billing/plans'
 import { assertSeatFor } from './billing'
 
-export interface MemberView { userId: string; name: string; email: string; role: Role; since: Date }
+export interface MemberView { userId: string; name: string; email: string; role: Role; since: Date; qualification: string }
 
 /** Active members of the organisation. */
 export async function listMembers(ctx: MemberContext): Promise<MemberView[]> {
   const rows = await useDb()
     .selectFrom('memberships as m')
     .innerJoin('users as u', 'u.id', 'm.user_id')
-    .select(['u.id', 'u.name', 'u.email', 'm.role', 'm.created_at'])
+    .select(['u.id', 'u.name', 'u.email', 'm.role', 'm.created_at', 'm.qualification'])
     .where('m.organisation_id', '=', ctx.org.id)
     .where('m.removed_at', 'is', null)
     .orderBy('u.name')
     .execute()
-  return rows.map((r) => ({ userId: r.id, name: r.name, email: r.email, role: r.role, since: r.created_at }))
+  return rows.map((r) => ({ userId: r.id, name: r.name, email: r.email, role: r.role, since: r.created_at, qualification: r.qualification }))
 }
 
 // Owner rows are locked while changing roles so that two owners demoting each other cannot leave none.
@@ -40,7 +40,7 @@ export async function changeRole(ctx: MemberContext, userId: string, role: Role)
   return useDb().transaction().execute(async (trx) => {
     const owners = await ownersLocked(trx, ctx.org.id)
     const target = await trx.selectFrom('memberships as m').innerJoin('users as u', 'u.id', 'm.user_id')
-      .select(['u.id', 'u.name', 'u.email', 'm.role', 'm.created_at'])
+      .select(['u.id', 'u.name', 'u.email', 'm.role', 'm.created_at', 'm.qualification'])
       .where('m.organisation_id', '=', ctx.org.id).where('m.user_id', '=', userId).where('m.removed_at', 'is', null)
       .executeTakeFirst()
     if (!target) throw notFound('Member')
@@ -51,7 +51,7 @@ export async function changeRole(ctx: MemberContext, userId: string, role: Role)
       .set({ role, updated_at: new Date(), version: sql`version + 1` })
       .where('organisation_id', '=', ctx.org.id).where('user_id', '=', userId)
       .execute()
-    return { userId: target.id, name: target.name, email: target.email, role, since: target.created_at }
+    return { userId: target.id, name: target.name, email: target.email, role, since: target.created_at, qualification: target.qualification }
   })
 }
 

@@ -50,6 +50,8 @@ export interface MemberItem {
   email: string
   role: Role
   since: string
+  /** Thermography qualification as the organisation records it (printed on survey reports); '' when none. */
+  qualification: string
 }
 
 /** GET /api/orgs/:org/invitations */
