@@ -19,6 +19,20 @@ import type { SurveysTable } from './tables/surveys'
 import type { SurveySitesTable } from './tables/survey-sites'
 import type { ChecksTable } from './tables/checks'
 import type { FindingsTable } from './tables/findings'
+import type { TemperatureGridsTable } from './tables/temperature-grids'
+import type { AttachmentsTable } from './tables/attachments'
+import type { IdempotencyKeysTable } from './tables/idempotency-keys'
+import type { NoticesTable } from './tables/notices'
+import type { NoticePreferencesTable } from './tables/notice-preferences'
+import type { OutboxTable } from './tables/outbox'
+import type { JobRunsTable } from './tables/job-runs'
+import type { WorkOrdersTable } from './tables/work-orders'
+import type { WorkOrderFindingsTable } from './tables/work-order-findings'
+import type { WorkOrderAssigneesTable } from './tables/work-order-assignees'
+import type { VerificationsTable } from './tables/verifications'
+import type { RecordEventsTable } from './tables/record-events'
+import type { SurveyReportsTable } from './tables/survey-reports'
+import type { ApiTokensTable, ApiTokenRequestsTable, ApiTokenWindowsTable } from './tables/api-tokens'
 
 /** The Kysely schema of Greybody's database: one interface per table, snake_case as stored. */
 export interface Database {
@@ -43,4 +57,20 @@ export interface Database {
   survey_sites: SurveySitesTable
   checks: ChecksTable
   findings: FindingsTable
+  temperature_grids: TemperatureGridsTable
+  attachments: AttachmentsTable
+  idempotency_keys: IdempotencyKeysTable
+  notices: NoticesTable
+  notice_preferences: NoticePreferencesTable
+  outbox: OutboxTable
+  job_runs: JobRunsTable
+  work_orders: WorkOrdersTable
+  work_order_findings: WorkOrderFindingsTable
+  work_order_assignees: WorkOrderAssigneesTable
+  verifications: VerificationsTable
+  record_events: RecordEventsTable
+  survey_reports: SurveyReportsTable
+  api_tokens: ApiTokensTable
+  api_token_requests: ApiTokenRequestsTable
+  api_token_windows: ApiTokenWindowsTable
 }

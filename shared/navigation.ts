@@ -2,7 +2,7 @@
 // Reports) add a line here with the permission that shows it. List only screens that exist.
 import { can, type Permission, type Role } from './permissions'
 
-export type NavIcon = 'overview' | 'workbench' | 'members' | 'settings' | 'map' | 'route' | 'calendar' | 'instrument' | 'surface' | 'billing' | 'site' | 'asset'
+export type NavIcon = 'overview' | 'workbench' | 'members' | 'settings' | 'map' | 'route' | 'calendar' | 'instrument' | 'surface' | 'billing' | 'site' | 'asset' | 'bell' | 'mail'
 
 export interface NavItem {
   key: string
@@ -15,6 +15,7 @@ export interface NavItem {
 
 export const ORG_NAV: readonly NavItem[] = [
   { key: 'overview', label: 'Overview', path: '', icon: 'overview', permission: 'organisation.view' },
+  { key: 'dashboard', label: 'Dashboard', path: 'dashboard', icon: 'overview', permission: 'dashboard.view' },
   { key: 'workbench', label: 'Workbench', path: 'workbench', icon: 'workbench', permission: 'workbench.use' },
   { key: 'sites', label: 'Sites', path: 'sites', icon: 'site', permission: 'register.view' },
   { key: 'assets', label: 'Assets', path: 'assets', icon: 'asset', permission: 'register.view' },
@@ -25,8 +26,14 @@ export const ORG_NAV: readonly NavItem[] = [
   { key: 'surfaces', label: 'Surfaces', path: 'surfaces', icon: 'surface', permission: 'register.view' },
   { key: 'surveys', label: 'Surveys', path: 'surveys', icon: 'calendar', permission: 'surveys.view' },
   { key: 'findings', label: 'Findings', path: 'findings', icon: 'workbench', permission: 'surveys.view' },
+  { key: 'work-orders', label: 'Work orders', path: 'work-orders', icon: 'asset', permission: 'workorders.view' },
+  { key: 'my-repairs', label: 'My repairs', path: 'work-orders/mine', icon: 'route', permission: 'workorders.work' },
+  { key: 'verifications', label: 'Verifications', path: 'verifications', icon: 'calendar', permission: 'verifications.record' },
+  { key: 'notices', label: 'Notices', path: 'notices', icon: 'bell', permission: 'notices.view' },
+  { key: 'outbox', label: 'Outbox', path: 'outbox', icon: 'mail', permission: 'notices.outbox' },
   { key: 'members', label: 'Members', path: 'members', icon: 'members', permission: 'members.view' },
   { key: 'settings', label: 'Settings', path: 'settings', icon: 'settings', permission: 'organisation.manage' },
+  { key: 'api-tokens', label: 'API tokens', path: 'api-tokens', icon: 'settings', permission: 'tokens.manage' },
   { key: 'billing', label: 'Billing', path: 'billing', icon: 'billing', permission: 'billing.manage' },
 ]
 

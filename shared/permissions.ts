@@ -38,6 +38,24 @@ export const PERMISSIONS = {
   'surveys.plan': ['owner', 'manager'],
   'surveys.run': ['owner', 'manager', 'thermographer'],
   'findings.review': ['owner', 'manager'],
+  // The programme dashboard: the figures managers show engineers, insurers and management; read-only.
+  'dashboard.view': ['owner', 'manager', 'viewer'],
+  // Notices: everyone reads their own and chooses which reach them by e-mail; managers watch the outbox.
+  'notices.view': ['owner', 'manager', 'thermographer', 'crew', 'viewer'],
+  'notices.outbox': ['owner', 'manager'],
+  // Organisation API tokens: created, listed and revoked by owners; a token itself never holds this (shared/api-tokens.ts).
+  'tokens.manage': ['owner'],
+  // Survey reports (PDF): managers make them from reviewed surveys; the people who read results download them
+  // (thermographers their work, viewers as engineering reviewers, insurers and auditors). Crews work from work orders.
+  'reports.create': ['owner', 'manager'],
+  'reports.view': ['owner', 'manager', 'thermographer', 'viewer'],
+  // Work orders: managers raise, edit and cancel them; the crew assigned works them (owners and managers may too);
+  // thermographers record the verification re-scan (managers too). Crew cannot rank or cancel; thermographers cannot raise.
+  'workorders.view': ['owner', 'manager', 'thermographer', 'crew', 'viewer'],
+  'workorders.raise': ['owner', 'manager'],
+  'workorders.work': ['owner', 'manager', 'crew'],
+  'workorders.cancel': ['owner', 'manager'],
+  'verifications.record': ['owner', 'manager', 'thermographer'],
 } as const satisfies Record<string, readonly Role[]>
 export type Permission = keyof typeof PERMISSIONS
 

@@ -2,6 +2,11 @@ import bcrypt from 'bcryptjs'
 import type { Kysely } from 'kysely'
 import type { Database } from '../database'
 import { seedDemoProgramme } from './programme'
+import { seedDemoWorkOrders } from './work-orders'
+import { seedDemoTrends } from './trends'
+import { seedDemoFieldwork } from './fieldwork'
+import { seedDemoQualifications } from './reports'
+import { seedDemoNotices } from './notices'
 import { TRIAL_DAYS, TRIAL_SEATS } from '../../shared/billing/plans'
 
 // The demo scenario is invented: Lowmoor Valley Power is a fictional utility, its sites and people are made up.
@@ -102,6 +107,16 @@ export async function seedDemo(db: Kysely<Database>): Promise<boolean> {
     }
     // Surface libraries, instruments and a route (db/seeds/programme.ts).
     await seedDemoProgramme(trx, { orgId: org.id, contractorId: contractor.id })
+    // A reviewed survey with findings and work orders in every state (db/seeds/work-orders.ts).
+    await seedDemoWorkOrders(trx, { orgId: org.id })
+    // Earlier readings of one component, so its trend shows on the asset page (db/seeds/trends.ts).
+    await seedDemoTrends(trx, { orgId: org.id })
+    // A band corrected on review, with its reason (db/seeds/fieldwork.ts).
+    await seedDemoFieldwork(trx, { orgId: org.id })
+    // Thermography qualifications printed on survey reports (db/seeds/reports.ts).
+    await seedDemoQualifications(trx, { orgId: org.id })
+    // A few in-app notices so the bell shows something at once (db/seeds/notices.ts).
+    await seedDemoNotices(trx, { orgId: org.id })
   })
   return true
 }

@@ -16,6 +16,13 @@ export interface OrganisationsTable {
   /** Bands of an open finding that shorten an asset's interval, and the factor applied. */
   monitor_bands: ColumnType<number[], number[] | undefined, number[]>
   monitor_factor: ColumnType<string, number | string | undefined, number | string>
+  /** Repair deadline in days per band (null = record and trend, no due date). */
+  repair_days_band1: ColumnType<number | null, number | null | undefined, number | null>
+  repair_days_band2: ColumnType<number | null, number | null | undefined, number | null>
+  repair_days_band3: ColumnType<number | null, number | null | undefined, number | null>
+  repair_days_band4: ColumnType<number | null, number | null | undefined, number | null>
+  /** Last work order number handed out in this organisation. */
+  work_order_counter: Generated<number>
   version: Generated<number>
   created_at: ColumnType<Date, never, never>
   updated_at: ColumnType<Date, Date | string | undefined, Date | string>

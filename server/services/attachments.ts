@@ -13,6 +13,7 @@ import {
   type AttachmentSubjectKind,
 } from '#shared/schemas/attachment'
 import type { Attachment, AttachmentUploadTicket } from '#shared/types/attachment'
+import { assertStorageRoom } from './plan-limits'
 
 // Generic attachments: images on a finding or a work order, sent by the browser straight to object storage through a
 // presigned PUT, then checked here by their real size and content before they count. The subject's own rules (who may
@@ -111,6 +112,7 @@ export async function beginAttachmentUpload(
   if (!opts.kinds.includes(input.kind)) {
     fieldError('kind', `Choose ${opts.kinds.map((k) => ATTACHMENT_KIND_LABELS[k].toLowerCase()).join(' or ')}.`)
   }
+  await assertStorageRoom(useDb(), ctx.org.id, input.sizeBytes)
   const id = randomUUID()
   // The key holds only ids and a fixed extension: the person's file name never reaches the object store.
   const objectKey = tenantKey(ctx.org.id, 'attachments', id, `original.${extensionOf(input.contentType)}`)

@@ -7,6 +7,7 @@ import {
 } from '#shared/billing/plans'
 import { addDays } from '#shared/billing/standing'
 import type { BillingInvoicePage, BillingStandingView, BillingSummary } from '#shared/types/billing'
+import { storedBytes } from './plan-limits'
 
 type Db = Kysely<Database> | Transaction<Database>
 
@@ -131,7 +132,7 @@ export async function billingSummary(ctx: MemberContext): Promise<BillingSummary
     canSubscribe: !live,
     subscribed: live,
     hasCustomer: !!state.stripeCustomerId,
-    usage: { sites: Number(sites.n) },
+    usage: { sites: Number(sites.n), storageBytes: await storedBytes(db, ctx.org.id) },
   }
 }
 

@@ -43,3 +43,23 @@ export async function storageAllowanceBytes(trx: Db, orgId: string): Promise<{ p
   const plan = PLANS[await lockedPlan(trx, orgId)]
   return { planName: plan.name, bytes: plan.limits.storageGb === null ? null : plan.limits.storageGb * 1024 ** 3 }
 }
+
+/** Bytes of stored files the organisation holds (images of findings and work orders). */
+export async function storedBytes(db: Db, orgId: string): Promise<number> {
+  const row = await db.selectFrom('attachments').select((eb) => eb.fn.coalesce(eb.fn.sum<number>('size_bytes'), eb.lit(0)).as('n'))
+    .where('organisation_id', '=', orgId).where('state', '=', 'stored').executeTakeFirstOrThrow()
+  return Number(row.n)
+}
+
+/** Refuses an upload that would take the organisation's stored files past the plan's allowance. */
+export async function assertStorageRoom(db: Db, orgId: string, addingBytes: number): Promise<void> {
+  const { planName, bytes } = await storageAllowanceBytes(db, orgId)
+  if (bytes === null) return
+  const used = await storedBytes(db, orgId)
+  if (used + addingBytes > bytes) {
+    const gb = (n: number) => `${(n / 1024 ** 3).toLocaleString('en-GB', { maximumFractionDigits: 2 })} GB`
+    const message = `The ${planName} plan holds ${gb(bytes)} of files and ${gb(used)} are in use, so this file does not fit. `
+      + 'Choose a larger plan on the Billing page.'
+    throw createError({ statusCode: 409, statusMessage: 'Plan limit reached', data: { message, limit: true, fieldErrors: { file: [message] } } })
+  }
+}

@@ -1,7 +1,6 @@
 import { sql, type Transaction } from 'kysely'
 import type { z } from 'zod'
 import type { Database } from '~~/db/database'
-import type { FindingRow } from '~~/db/tables/findings'
 import { ZERO_CELSIUS_K, correctionChain, isThermalInputError, type ReadingWarning } from '#shared/thermal/index'
 import { todayIn } from '#shared/schedule'
 import {
@@ -19,11 +18,14 @@ import {
 import type { FindingListItem, SurveyAsset, SurveyDetail, SurveyFinding, SurveyListItem, SurveySite } from '#shared/types/survey'
 import type { Page } from '#shared/types/programme'
 import { changedMeanwhile, num, pageWindow } from './paging'
+import { notifyBandOneFinding } from './notices'
+import { assertSurface, effectiveBandSql, findingExtras, reviewerNameSql, type FindingRowWithReviewer } from './finding-parts'
+import { linkGridToFinding } from './temperature-grids'
 
 type Db = ReturnType<typeof useDb> | Transaction<Database>
 
 /** The criteria set findings are ranked with until organisations can choose their own. */
-const DEFAULT_CRITERIA_ID = 'neta-100-18'
+export const DEFAULT_CRITERIA_ID = 'neta-100-18'
 
 function conflict(message: string): never {
   throw createError({ statusCode: 409, statusMessage: 'Conflict', data: { message } })
@@ -88,8 +90,9 @@ export async function listSurveys(ctx: MemberContext, q: z.output<typeof surveyL
   return { items: rows.map(toListItem), total: Number(count.n), page: q.page, pageSize: q.pageSize }
 }
 
-function toFinding(f: FindingRow, assetId: string): SurveyFinding {
+export function toFinding(f: FindingRowWithReviewer, assetId: string): SurveyFinding {
   return {
+    ...findingExtras(f),
     id: f.id,
     checkId: f.check_id,
     assetId,
@@ -137,7 +140,7 @@ export async function getSurvey(ctx: MemberContext, id: string, db: Db = useDb()
     db.selectFrom('checks').selectAll().where('organisation_id', '=', ctx.org.id).where('survey_id', '=', id).execute(),
     db.selectFrom('findings as f')
       .innerJoin('checks as c', (j) => j.onRef('c.organisation_id', '=', 'f.organisation_id').onRef('c.id', '=', 'f.check_id'))
-      .selectAll('f').select('c.asset_id')
+      .selectAll('f').select('c.asset_id').select(reviewerNameSql().as('reviewer_name'))
       .where('f.organisation_id', '=', ctx.org.id).where('c.survey_id', '=', id).orderBy('f.created_at').execute(),
   ])
   const checkByAsset = new Map(checks.map((c) => [c.asset_id, c]))
@@ -165,7 +168,9 @@ export async function getSurvey(ctx: MemberContext, id: string, db: Db = useDb()
     assetsBySite.set(a.site_id, list)
   }
   for (const f of findings) {
-    const key = f.band === null ? 'none' : String(f.band)
+    // A manager's reviewed band counts instead of the computed one.
+    const band = f.reviewed_band ?? f.band
+    const key = band === null ? 'none' : String(band)
     summary.byBand[key] = (summary.byBand[key] ?? 0) + 1
   }
   const outSites: SurveySite[] = sites.map((s) => ({
@@ -404,6 +409,7 @@ export async function recordFinding(ctx: MemberContext, surveyId: string, input:
     assertAssigned(ctx, s)
     assertRecording(s)
     await assetInSurvey(trx, ctx, surveyId, input.assetId)
+    await assertSurface(trx, ctx, input.surfaceId)
     const inst = await trx.selectFrom('instruments').select(['band_from_um', 'band_to_um', 'accuracy_k', 'accuracy_pct', 'ifov_mrad'])
       .select(sql<string | null>`to_char(calibration_due, 'YYYY-MM-DD')`.as('calibration_due'))
       .where('organisation_id', '=', ctx.org.id).where('id', '=', s.instrument_id).executeTakeFirstOrThrow()
@@ -428,6 +434,7 @@ export async function recordFinding(ctx: MemberContext, surveyId: string, input:
       transmittance: input.transmittance ?? null, window_transmittance: input.windowTransmittance ?? null, window_c: input.windowC ?? null,
       load_a: input.loadA ?? null, rated_a: input.ratedA ?? null, wind_ms: input.windMs ?? null,
       probable_cause: input.probableCause, cause_notes: input.causeNotes ?? '', notes: input.notes ?? '',
+      surface_id: input.surfaceId ?? null,
       object_c: kToC(chain.hotObjectK),
       rise_over_reference_k: chain.measured.overReferenceK ?? null,
       rise_over_ambient_k: chain.measured.overAmbientK ?? null,
@@ -442,7 +449,10 @@ export async function recordFinding(ctx: MemberContext, surveyId: string, input:
       criteria_id: chain.rank.criteriaId,
       criteria_version: chain.rank.criteriaVersion,
     }).returningAll().executeTakeFirstOrThrow()
+    if (input.gridId) await linkGridToFinding(trx, ctx, { gridId: input.gridId, surveyId, assetId: input.assetId, findingId: row.id })
     await bump(trx, ctx, surveyId, {})
+    // Band 1: the managers hear of it at once (notice in the same transaction; e-mail through the outbox).
+    if (row.band === 1) await notifyBandOneFinding(trx, ctx, row, surveyId, input.assetId)
     return toFinding(row, input.assetId)
   })
 }
@@ -460,14 +470,23 @@ export async function listFindings(
     .innerJoin('sites as si', (j) => j.onRef('si.organisation_id', '=', 'a.organisation_id').onRef('si.id', '=', 'a.site_id'))
     .where('f.organisation_id', '=', ctx.org.id)
     .where('s.archived_at', 'is', null)
-  if (q.band) query = query.where('f.band', '=', q.band)
+  if (q.band) query = query.where(effectiveBandSql(), '=', q.band)
   if (q.surveyId) query = query.where('s.id', '=', q.surveyId)
+  // The dashboard's filters (same rules as its figures, server/services/dashboard.ts).
+  if (q.open === 'true') {
+    query = query.where('f.closed_at', 'is', null).where('f.archived_at', 'is', null).where('s.state', 'in', ['submitted', 'reviewed'])
+  }
+  if (q.counted === 'true') query = query.where('f.archived_at', 'is', null).where('s.state', 'in', ['submitted', 'reviewed'])
+  if (q.siteId) query = query.where('a.site_id', '=', q.siteId)
+  const recordedOn = sql`(f.created_at at time zone (select o.time_zone from organisations o where o.id = f.organisation_id))::date`
+  if (q.from) query = query.where(sql<boolean>`${recordedOn} >= ${q.from}::date`)
+  if (q.to) query = query.where(sql<boolean>`${recordedOn} <= ${q.to}::date`)
   const { limit, offset } = pageWindow(q.page, q.pageSize)
   const [count, rows] = await Promise.all([
     query.select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow(),
-    query.selectAll('f').select(['c.asset_id', 's.id as survey_id', 'a.label as asset_label', 'si.name as site_name'])
+    query.selectAll('f').select(['c.asset_id', 's.id as survey_id', 'a.label as asset_label', 'si.name as site_name']).select(reviewerNameSql().as('reviewer_name'))
       .select(sql<string>`to_char(s.planned_for, 'YYYY-MM-DD')`.as('planned_for'))
-      .orderBy('s.planned_for', 'desc').orderBy(sql`f.band asc nulls last`).orderBy('f.created_at').orderBy('f.id')
+      .orderBy('s.planned_for', 'desc').orderBy(sql`coalesce(f.reviewed_band, f.band) asc nulls last`).orderBy('f.created_at').orderBy('f.id')
       .limit(limit).offset(offset).execute(),
   ])
   return {

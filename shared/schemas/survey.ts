@@ -150,6 +150,10 @@ export const findingSchema = z
     ratedA: positive('the rated current in amperes', 1e6),
     windMs: num('the wind speed').refine((v) => v === undefined || (v >= 0 && v <= 60), 'Enter the wind speed from 0 to 60 m/s.'),
     probableCause: z.enum(PROBABLE_CAUSES, { error: 'Choose the probable cause.' }),
+    // The surface-library entry whose ε was used, if one was picked (kept for the record).
+    surfaceId: z.uuid('Choose a surface from the library.').nullable().optional(),
+    // A temperature grid attached to this asset on this survey that the reading was taken from, if any.
+    gridId: z.uuid('Not a temperature grid.').nullable().optional(),
     causeNotes: notesSchema.optional(),
     notes: notesSchema.optional(),
   })
@@ -251,4 +255,12 @@ export const findingListQuerySchema = z.object({
   pageSize: pageSizeSchema,
   band: z.coerce.number().int().min(1, 'Bands are 1 to 4.').max(4, 'Bands are 1 to 4.').optional(),
   surveyId: z.uuid('Not a survey.').optional(),
+  // Filters the dashboard's links use: only open findings (not closed, not archived, on a survey handed in or
+  // reviewed), one site, and the days the findings were recorded (organisation's time zone, both ends included).
+  open: z.enum(['true', 'false'], { error: 'Use true or false.' }).optional(),
+  /** Only findings that count in the dashboard's figures: not archived, on a survey handed in or reviewed. */
+  counted: z.enum(['true', 'false'], { error: 'Use true or false.' }).optional(),
+  siteId: z.uuid('Not a site.').optional(),
+  from: isoDateSchema.optional(),
+  to: isoDateSchema.optional(),
 })

@@ -32,7 +32,8 @@ export interface BillingSummary {
   subscribed: boolean
   /** The billing portal needs a customer at the payment provider. */
   hasCustomer: boolean
-  usage: { sites: number }
+  /** Active sites, and bytes of stored files (images). */
+  usage: { sites: number; storageBytes: number }
   /** Present when the page came back from Checkout with a session id. */
   checkout?: { status: 'open' | 'complete' | 'expired' | 'unknown' }
 }

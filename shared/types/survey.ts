@@ -1,5 +1,6 @@
 import type { ReadingWarning } from '../thermal/index'
 import type { CheckOutcome, NotReachedReason, SurveyStateName } from '../schemas/survey'
+import type { FindingExtras } from './finding'
 
 // API objects of surveys, checks and findings (camelCase, °C, metres).
 
@@ -18,7 +19,7 @@ export interface SurveyListItem {
   updatedAt: string
 }
 
-export interface SurveyFinding {
+export interface SurveyFinding extends FindingExtras {
   id: string
   checkId: string
   assetId: string

@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { ApiClient, linkIn, mailFor, signUpOwner } from '../support/api'
 import { expectAccessible, launchBrowser, newSession } from '../support/browser'
 import { resetDatabase } from '../support/db'
+import { jpegBytes, pngBytes } from '../support/images'
 
 let browser: Browser
 let slug: string
@@ -33,6 +34,8 @@ afterAll(async () => {
 })
 
 describe('the field screen on a phone', () => {
+  // Uploads and image checks take a while on a loaded machine.
+  const slow = { timeout: 20_000 }
   it('records a clear check and a finding with the live band', async () => {
     const { context, page } = await newSession(browser, { phone: true })
     await page.goto('/sign-in')
@@ -70,4 +73,81 @@ describe('the field screen on a phone', () => {
     await expect.poll(() => page.getByText('2 of 2 assets checked').count()).toBe(1)
     await context.close()
   })
+
+  it('attaches images to the saved finding: progress bar, a failed upload with Retry, thumbnails on the review screen', async () => {
+    // The finding of the step above, recorded here through the API when that step did not get to save it.
+    const api = new ApiClient()
+    await api.signIn(email, password)
+    const detail = await api.get(`/api/orgs/${slug}/surveys/${surveyId}`)
+    const t1Asset = detail.body.sites[0].assets.find((a: { label: string }) => a.label === 'T1')
+    if (!t1Asset.findings.length) {
+      await api.post(`/api/orgs/${slug}/surveys/${surveyId}/findings`, {
+        assetId: t1Asset.id, component: 'Line-side connector', apparentC: 50, ambientC: 20, emissivity: 0.5, reflectedC: 20, reflectedMethod: 'reflector', probableCause: 'loose_connection',
+      })
+    }
+    const { context, page } = await newSession(browser, { phone: true })
+    await page.goto('/sign-in')
+    await page.getByLabel('E-mail').fill(email)
+    await page.getByLabel('Password').fill(password)
+    await page.getByRole('button', { name: 'Sign in' }).click()
+    await page.waitForURL(/\/orgs\//)
+    await page.goto(`/orgs/${slug}/surveys/${surveyId}`)
+    const images = page.locator('li[data-asset="T1"]').getByTestId('finding-images')
+    await images.getByRole('button', { name: 'Add images' }).click()
+    const take = images.getByText('Take photo')
+    expect((await take.boundingBox())!.height).toBeGreaterThanOrEqual(44)
+    await expect.poll(() => images.getByTestId('image-camera').getAttribute('capture'), slow).toBe('environment')
+    await expectAccessible(page, 'finding images picker')
+
+    // An infrared image taken with the camera input: the bar fills, the server checks it, the thumbnail appears.
+    await images.getByTestId('image-camera').setInputFiles({ name: 'IR_0001.png', mimeType: 'image/png', buffer: await pngBytes(640, 480) })
+    const first = images.locator('[data-upload-state]').first()
+    await expect.poll(() => first.getAttribute('data-upload-state'), slow).toBe('done')
+    await expect.poll(() => first.locator('progress').evaluate((el) => (el as HTMLProgressElement).value), slow).toBe(100)
+    const thumb = images.getByTestId('finding-thumbnails').getByRole('img', { name: /Infrared image IR_0001\.png/ })
+    await expect.poll(() => thumb.evaluate((img) => (img as HTMLImageElement).naturalWidth), slow).toBe(320)
+
+    // The connection drops while a visible-light photo is on its way: a clear message and Retry; the finding stays.
+    let offline = true
+    await page.route((url) => url.searchParams.has('X-Amz-Signature'), (r) => (offline && r.request().method() === 'PUT' ? r.abort('internetdisconnected') : r.continue()))
+    await images.getByLabel('Visible light').check()
+    await images.getByTestId('image-file').setInputFiles({ name: 'DSC_0042.jpg', mimeType: 'image/jpeg', buffer: await jpegBytes(800, 600) })
+    const second = images.locator('[data-upload-state]').nth(1)
+    await expect.poll(() => second.getAttribute('data-upload-state'), slow).toBe('failed')
+    await expect.poll(() => second.getByRole('alert').textContent(), slow).toMatch(/did not finish uploading.*finding is saved/)
+    await expectAccessible(page, 'failed image upload')
+    expect(await page.locator('li[data-asset="T1"]').textContent()).toContain('74.3 °C · band 1')
+    offline = false
+    await second.getByRole('button', { name: /Retry/ }).click()
+    await expect.poll(async () => `${await second.getAttribute('data-upload-state')} ${await second.textContent()}`, slow).toMatch(/^done /)
+    await expect.poll(() => images.getByTestId('finding-thumbnails').getByRole('img').count(), slow).toBe(2)
+
+    // A file that is not an image is refused before anything is sent, with the reason and no Retry.
+    await images.getByTestId('image-file').setInputFiles({ name: 'notes.txt', mimeType: 'text/plain', buffer: Buffer.from('just words') })
+    const third = images.locator('[data-upload-state]').nth(2)
+    await expect.poll(() => third.getByRole('alert').textContent(), slow).toMatch(/Only JPEG or PNG/)
+    expect(await third.getByRole('button', { name: /Retry/ }).count()).toBe(0)
+
+    // A wrong photo is taken off after a confirmation (archived, not deleted).
+    await images.getByRole('button', { name: /Remove Visible light image DSC_0042\.jpg/ }).click()
+    await page.getByRole('dialog').getByRole('button', { name: 'Remove image' }).click()
+    await expect.poll(() => images.getByTestId('finding-thumbnails').getByRole('img').count(), slow).toBe(1)
+    await context.close()
+
+    // The manager sees the thumbnails on the review screen and in the findings list.
+    const manager = await newSession(browser)
+    await manager.page.goto('/sign-in')
+    await manager.page.getByLabel('E-mail').fill('ora@browser-survey.test')
+    await manager.page.getByLabel('Password').fill('correct horse battery')
+    await manager.page.getByRole('button', { name: 'Sign in' }).click()
+    await manager.page.waitForURL(/\/orgs\//)
+    await manager.page.goto(`/orgs/${slug}/surveys/${surveyId}/review`)
+    const reviewThumbs = manager.page.getByTestId('finding-thumbnails').getByRole('img')
+    await expect.poll(() => reviewThumbs.count(), slow).toBe(1)
+    await expect.poll(() => reviewThumbs.first().evaluate((img) => (img as HTMLImageElement).naturalWidth), slow).toBeGreaterThan(0)
+    await expectAccessible(manager.page, 'review screen with thumbnails')
+    await manager.page.goto(`/orgs/${slug}/findings`)
+    await expect.poll(() => manager.page.getByTestId('finding-thumbnails').getByRole('img').count(), slow).toBe(1)
+    await manager.context.close()
+  }, 240_000)
 })

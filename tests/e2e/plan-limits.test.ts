@@ -63,6 +63,39 @@ describe('site limit of the plan', () => {
     expect(await activeSites()).toBe(limit)
   })
 
+  it('refuses an image upload that would pass the plan\'s storage, before any upload link is made', async () => {
+    // A survey the owner runs themself (owners hold surveys.run), one finding to attach to.
+    const site = await testDb().selectFrom('sites').select('id').where('organisation_id', '=', orgId).where('code', '=', 'TAKES-ROOM').executeTakeFirstOrThrow()
+    const asset = await owner.post(`/api/orgs/${slug}/assets`, { siteId: site.id, label: 'T1', assetClass: 'transformer' })
+    const inst = await owner.post(`/api/orgs/${slug}/instruments`, { make: 'Halden', model: 'T8', serial: 'PL-1', bandFromUm: 8, bandToUm: 14 })
+    const me = await testDb().selectFrom('users').select('id').where('email', '=', 'ines@limits.test').executeTakeFirstOrThrow()
+    const survey = await owner.post(`/api/orgs/${slug}/surveys`, { plannedFor: '2026-12-02', thermographerId: me.id, instrumentId: inst.body.id, siteIds: [site.id] })
+    expect(survey.status, JSON.stringify(survey.body)).toBe(201)
+    await owner.post(`/api/orgs/${slug}/surveys/${survey.body.id}/start`, { version: survey.body.version })
+    const finding = await owner.post(`/api/orgs/${slug}/surveys/${survey.body.id}/findings`, {
+      assetId: asset.body.id, component: 'Clamp', apparentC: 48, ambientC: 18, emissivity: 0.9, reflectedC: 18, reflectedMethod: 'reflector', probableCause: 'loose_connection',
+    })
+    expect(finding.status, JSON.stringify(finding.body)).toBe(201)
+    const begin = (sizeBytes: number) => owner.post(`/api/orgs/${slug}/findings/${finding.body.id}/attachments`, { kind: 'infrared', fileName: 'IR.png', contentType: 'image/png', sizeBytes })
+    const allowance = PLANS.trial.limits.storageGb! * 1024 ** 3
+    // Stored images worth the allowance less 1 MB (rows only: the limit counts what the records say is stored).
+    const each = 25 * 1024 * 1024
+    const full = Math.floor((allowance - 1024 * 1024) / each)
+    const rest = allowance - 1024 * 1024 - full * each
+    const rows = [...Array.from({ length: full }, () => each), rest].map((size) => ({
+      organisation_id: orgId, subject_kind: 'finding', subject_id: finding.body.id, kind: 'infrared', file_name: 'old.png',
+      content_type: 'image/png', size_bytes: size, object_key: `orgs/${orgId}/attachments/x/original.png`, state: 'stored', stored_at: new Date(),
+    }))
+    await testDb().insertInto('attachments').values(rows as never).execute()
+    const refused = await begin(2 * 1024 * 1024)
+    expect(refused.status).toBe(409)
+    expect(refused.body.data.fieldErrors.file[0]).toContain('plan holds 10 GB of files')
+    // 1 MB still fits.
+    expect((await begin(1024 * 1024)).status).toBe(201)
+    const billing = await owner.get(`/api/orgs/${slug}/billing`)
+    expect(billing.body.usage.storageBytes).toBe(allowance - 1024 * 1024)
+  })
+
   it('lifts the limit on a plan without one', async () => {
     await testDb().updateTable('organisation_billing').set({ plan: 'utility' }).where('organisation_id', '=', orgId).execute()
     expect(PLANS.utility.limits.sites).toBeNull()

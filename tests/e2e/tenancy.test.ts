@@ -5,9 +5,11 @@ import { ApiClient, linkIn, mailFor, signUpOwner } from '../support/api'
 import { resetDatabase } from '../support/db'
 import { ROOT } from '../support/env'
 import { ORG_ROUTES, type OrgRoute } from '../support/org-routes'
+import { pngBytes, uploadImage } from '../support/images'
+import { reviewedSurvey, waitForReport } from '../support/reports'
 import { ROLES, can, type Role } from '../../shared/permissions'
 
-interface Tenant { owner: ApiClient; slug: string; ownerId: string; invitationId: string; members: Record<Role, ApiClient>; memberIds: Record<Role, string>; siteId: string; assetId: string; registerImportId: string; instrumentId: string; surfaceId: string; routeId: string; surveyId: string }
+interface Tenant { owner: ApiClient; slug: string; ownerId: string; invitationId: string; members: Record<Role, ApiClient>; memberIds: Record<Role, string>; siteId: string; assetId: string; registerImportId: string; instrumentId: string; surfaceId: string; routeId: string; surveyId: string; findingId: string; attachmentId: string; gridId: string; apiTokenId: string; reportId: string; workOrderId: string; workOrderAttachmentId: string; verificationId: string }
 
 let a: Tenant
 let b: Tenant
@@ -39,11 +41,44 @@ async function tenant(prefix: string): Promise<Tenant> {
   const route = await owner.post(`/api/orgs/${slug}/routes`, { name: `${prefix} route`, baseName: 'Depot', baseLatitude: 54, baseLongitude: -3, recurrenceMonths: 12, siteIds: [site.body.id] })
   // A survey for routes that take a survey id, run by the tenant's thermographer.
   const survey = await owner.post(`/api/orgs/${slug}/surveys`, { plannedFor: '2026-12-02', thermographerId: memberIds.thermographer, instrumentId: instrument.body.id, routeId: route.body.id })
-  return { owner, slug, ownerId, invitationId: inv.body.id, members, memberIds, siteId: site.body.id, assetId: asset.body.id, registerImportId: upload.body.id, instrumentId: instrument.body.id, surfaceId: surface.body.id, routeId: route.body.id, surveyId: survey.body.id }
+  // A finding for routes that take a finding id, recorded by that thermographer on the started survey.
+  await members.thermographer.post(`/api/orgs/${slug}/surveys/${survey.body.id}/start`, { version: 1 })
+  const finding = await members.thermographer.post(`/api/orgs/${slug}/surveys/${survey.body.id}/findings`, {
+    assetId: asset.body.id, component: 'Line-side lug', apparentC: 60, referenceC: 30, ambientC: 20, emissivity: 0.9, reflectedC: 20, reflectedMethod: 'direct', probableCause: 'loose_connection',
+  })
+  if (finding.status !== 201) throw new Error(`tenant finding: ${finding.status} ${JSON.stringify(finding.body)}`)
+  // A stored image on that finding, for routes that take an attachment id.
+  const image = await uploadImage(members.thermographer, `/api/orgs/${slug}/findings/${finding.body.id}/attachments`, await pngBytes())
+  if (image.complete?.status !== 200) throw new Error(`tenant image: ${image.begin.status} ${JSON.stringify(image.complete?.body ?? image.begin.body)}`)
+  // A temperature grid on that survey's asset, for routes that take a grid id.
+  const grid = await members.thermographer.post(`/api/orgs/${slug}/surveys/${survey.body.id}/grids`, { assetId: asset.body.id, unit: 'C', fileName: 'tenancy.csv', csv: '20,21\n22,60\n' })
+  if (grid.status !== 201) throw new Error(`tenant grid: ${grid.status} ${JSON.stringify(grid.body)}`)
+  // An API token, for routes that take a token id.
+  const apiToken = await owner.post(`/api/orgs/${slug}/api-tokens`, { name: `${prefix} token`, scope: 'read' })
+  if (apiToken.status !== 201) throw new Error(`tenant api token: ${apiToken.status} ${JSON.stringify(apiToken.body)}`)
+  // A report of a reviewed survey (a second survey of the site), for routes that take a report id.
+  const reviewedId = await reviewedSurvey(owner, members.thermographer, slug, { thermographerId: memberIds.thermographer, instrumentId: instrument.body.id, siteIds: [site.body.id] })
+  const requested = await owner.post(`/api/orgs/${slug}/surveys/${reviewedId}/reports`, { includeImages: false })
+  if (requested.status !== 202) throw new Error(`tenant report: ${requested.status} ${JSON.stringify(requested.body)}`)
+  await waitForReport(owner, slug, requested.body.id)
+  // A work order raised from that finding, worked to awaiting verification (for routes that take a work order or
+  // verification id), with a repair photo on it.
+  const wo = await owner.post(`/api/orgs/${slug}/work-orders`, { findingIds: [finding.body.id], assigneeIds: [memberIds.crew] })
+  if (wo.status !== 201) throw new Error(`tenant work order: ${wo.status} ${JSON.stringify(wo.body)}`)
+  let woVersion = wo.body.version as number
+  for (const to of ['planned', 'in_repair', 'awaiting_verification']) {
+    const moved = await members.crew.post(`/api/orgs/${slug}/work-orders/${wo.body.id}/move`, { to, version: woVersion, thermographerId: memberIds.thermographer })
+    if (moved.status !== 200) throw new Error(`tenant work order move: ${moved.status} ${JSON.stringify(moved.body)}`)
+    woVersion = moved.body.version
+  }
+  const verification = (await owner.get(`/api/orgs/${slug}/work-orders/${wo.body.id}`)).body.verifications[0]
+  const photo = await uploadImage(members.crew, `/api/orgs/${slug}/work-orders/${wo.body.id}/attachments`, await pngBytes(), { kind: 'repair' })
+  if (photo.complete?.status !== 200) throw new Error(`tenant repair photo: ${photo.begin.status} ${JSON.stringify(photo.complete?.body ?? photo.begin.body)}`)
+  return { owner, slug, ownerId, invitationId: inv.body.id, members, memberIds, siteId: site.body.id, assetId: asset.body.id, registerImportId: upload.body.id, instrumentId: instrument.body.id, surfaceId: surface.body.id, routeId: route.body.id, surveyId: survey.body.id, findingId: finding.body.id, attachmentId: image.complete.body.id, gridId: grid.body.id, apiTokenId: apiToken.body.token.id, reportId: requested.body.id, workOrderId: wo.body.id, workOrderAttachmentId: photo.complete.body.id, verificationId: verification.id }
 }
 
 function fill(route: OrgRoute, slug: string, t: Tenant) {
-  const registerIds: Record<string, string> = { site: t.siteId, asset: t.assetId, registerImport: t.registerImportId, instrument: t.instrumentId, surface: t.surfaceId, route: t.routeId, survey: t.surveyId }
+  const registerIds: Record<string, string> = { site: t.siteId, asset: t.assetId, registerImport: t.registerImportId, instrument: t.instrumentId, surface: t.surfaceId, route: t.routeId, survey: t.surveyId, finding: t.findingId, findingAttachment: `${t.findingId}/attachments/${t.attachmentId}`, grid: t.gridId, apiToken: t.apiTokenId, report: t.reportId, workOrder: t.workOrderId, workOrderAttachment: `${t.workOrderId}/attachments/${t.workOrderAttachmentId}`, verification: t.verificationId }
   const id = route.idKind === 'member' ? t.memberIds.viewer : route.idKind === 'invitation' ? t.invitationId : registerIds[route.idKind ?? ''] ?? ''
   return route.path.replace(':org', slug).replace(':id', id)
 }

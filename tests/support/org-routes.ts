@@ -11,7 +11,7 @@ export interface OrgRoute {
   path: string
   permission: Permission
   body?: Record<string, unknown>
-  idKind?: 'member' | 'invitation' | 'site' | 'asset' | 'registerImport' | 'instrument' | 'surface' | 'route' | 'survey'
+  idKind?: 'member' | 'invitation' | 'site' | 'asset' | 'registerImport' | 'instrument' | 'surface' | 'route' | 'survey' | 'finding' | 'findingAttachment' | 'grid' | 'apiToken' | 'report' | 'workOrder' | 'workOrderAttachment' | 'verification'
 }
 
 export const ORG_ROUTES: OrgRoute[] = [
@@ -88,4 +88,70 @@ export const ORG_ROUTES: OrgRoute[] = [
   { file: 'orgs/[org]/surveys/[id]/conditions.post.ts', method: 'POST', path: '/api/orgs/:org/surveys/:id/conditions', permission: 'surveys.run', body: { siteId: '00000000-0000-4000-8000-000000000000', ambientC: 10 }, idKind: 'survey' },
   { file: 'orgs/[org]/surveys/[id]/findings.post.ts', method: 'POST', path: '/api/orgs/:org/surveys/:id/findings', permission: 'surveys.run', body: { assetId: '00000000-0000-4000-8000-000000000000', component: 'Intruder', apparentC: 50, emissivity: 0.9, reflectedC: 20, reflectedMethod: 'direct', probableCause: 'overload' }, idKind: 'survey' },
   { file: 'orgs/[org]/findings/index.get.ts', method: 'GET', path: '/api/orgs/:org/findings', permission: 'surveys.view' },
+  // Temperature grids: attached to a survey asset by its thermographer, read by anyone who sees surveys.
+  { file: 'orgs/[org]/surveys/[id]/grids.post.ts', method: 'POST', path: '/api/orgs/:org/surveys/:id/grids', permission: 'surveys.run', body: { assetId: '00000000-0000-4000-8000-000000000000', unit: 'C', fileName: 'intruder.csv', csv: '1,2\n3,4\n' }, idKind: 'survey' },
+  { file: 'orgs/[org]/grids/[id]/index.get.ts', method: 'GET', path: '/api/orgs/:org/grids/:id', permission: 'surveys.view', idKind: 'grid' },
+  { file: 'orgs/[org]/grids/[id]/values.get.ts', method: 'GET', path: '/api/orgs/:org/grids/:id/values', permission: 'surveys.view', idKind: 'grid' },
+  { file: 'orgs/[org]/grids/[id]/regions.post.ts', method: 'POST', path: '/api/orgs/:org/grids/:id/regions', permission: 'surveys.run', body: { hot: { shape: 'box', x: 0, y: 0, w: 1, h: 1 }, reference: null }, idKind: 'grid' },
+  // Images on findings (idKind 'findingAttachment' fills :id with '<findingId>/attachments/<attachmentId>').
+  { file: 'orgs/[org]/findings/attachments.get.ts', method: 'GET', path: '/api/orgs/:org/findings/attachments?ids=00000000-0000-4000-8000-000000000000', permission: 'surveys.view' },
+  { file: 'orgs/[org]/findings/[id]/attachments/index.get.ts', method: 'GET', path: '/api/orgs/:org/findings/:id/attachments', permission: 'surveys.view', idKind: 'finding' },
+  { file: 'orgs/[org]/findings/[id]/attachments/index.post.ts', method: 'POST', path: '/api/orgs/:org/findings/:id/attachments', permission: 'surveys.run', body: { kind: 'infrared', fileName: 'intruder.png', contentType: 'image/png', sizeBytes: 100 }, idKind: 'finding' },
+  { file: 'orgs/[org]/findings/[id]/attachments/[attachmentId]/complete.post.ts', method: 'POST', path: '/api/orgs/:org/findings/:id/complete', permission: 'surveys.run', idKind: 'findingAttachment' },
+  { file: 'orgs/[org]/findings/[id]/attachments/[attachmentId]/file.get.ts', method: 'GET', path: '/api/orgs/:org/findings/:id/file', permission: 'surveys.view', idKind: 'findingAttachment' },
+  { file: 'orgs/[org]/findings/[id]/attachments/[attachmentId]/archive.post.ts', method: 'POST', path: '/api/orgs/:org/findings/:id/archive', permission: 'surveys.run', idKind: 'findingAttachment' },
+  // Saved findings: the thermographer's edit, a manager's band review; an asset's history of checks and findings.
+  { file: 'orgs/[org]/findings/[id]/index.patch.ts', method: 'PATCH', path: '/api/orgs/:org/findings/:id', permission: 'surveys.run', body: { version: 1, assetId: '00000000-0000-4000-8000-000000000000', component: 'Intruder', apparentC: 50, emissivity: 0.9, reflectedC: 20, reflectedMethod: 'direct', probableCause: 'overload' }, idKind: 'finding' },
+  { file: 'orgs/[org]/findings/[id]/rank.post.ts', method: 'POST', path: '/api/orgs/:org/findings/:id/rank', permission: 'findings.review', body: { band: 1, reason: 'Changed by an intruder', version: 1 }, idKind: 'finding' },
+  { file: 'orgs/[org]/assets/[id]/history.get.ts', method: 'GET', path: '/api/orgs/:org/assets/:id/history', permission: 'surveys.view', idKind: 'asset' },
+  // The programme dashboard and the lists behind its figures.
+  { file: 'orgs/[org]/dashboard/index.get.ts', method: 'GET', path: '/api/orgs/:org/dashboard', permission: 'dashboard.view' },
+  { file: 'orgs/[org]/dashboard/coverage.get.ts', method: 'GET', path: '/api/orgs/:org/dashboard/coverage', permission: 'dashboard.view' },
+  { file: 'orgs/[org]/dashboard/repeats.get.ts', method: 'GET', path: '/api/orgs/:org/dashboard/repeats', permission: 'dashboard.view' },
+  { file: 'orgs/[org]/dashboard/verifications.get.ts', method: 'GET', path: '/api/orgs/:org/dashboard/verifications', permission: 'dashboard.view' },
+  // Notices: one's own list and e-mail choices; the outbox for managers.
+  { file: 'orgs/[org]/notices/index.get.ts', method: 'GET', path: '/api/orgs/:org/notices', permission: 'notices.view' },
+  { file: 'orgs/[org]/notices/read.post.ts', method: 'POST', path: '/api/orgs/:org/notices/read', permission: 'notices.view', body: { all: true } },
+  { file: 'orgs/[org]/notices/preferences.get.ts', method: 'GET', path: '/api/orgs/:org/notices/preferences', permission: 'notices.view' },
+  { file: 'orgs/[org]/notices/preferences.patch.ts', method: 'PATCH', path: '/api/orgs/:org/notices/preferences', permission: 'notices.view', body: { preferences: [{ kind: 'survey_due', byEmail: false }] } },
+  { file: 'orgs/[org]/outbox/index.get.ts', method: 'GET', path: '/api/orgs/:org/outbox', permission: 'notices.outbox' },
+  // Integration (issue 8): trends, CSV exports of findings and checks, one finding, organisation API tokens.
+  { file: 'orgs/[org]/assets/[id]/trends.get.ts', method: 'GET', path: '/api/orgs/:org/assets/:id/trends', permission: 'surveys.view', idKind: 'asset' },
+  { file: 'orgs/[org]/findings/export.get.ts', method: 'GET', path: '/api/orgs/:org/findings/export', permission: 'surveys.view' },
+  { file: 'orgs/[org]/findings/[id]/index.get.ts', method: 'GET', path: '/api/orgs/:org/findings/:id', permission: 'surveys.view', idKind: 'finding' },
+  { file: 'orgs/[org]/checks/index.get.ts', method: 'GET', path: '/api/orgs/:org/checks', permission: 'surveys.view' },
+  { file: 'orgs/[org]/work-orders/export.get.ts', method: 'GET', path: '/api/orgs/:org/work-orders/export', permission: 'workorders.view' },
+  { file: 'orgs/[org]/checks/export.get.ts', method: 'GET', path: '/api/orgs/:org/checks/export', permission: 'surveys.view' },
+  { file: 'orgs/[org]/api-tokens/index.get.ts', method: 'GET', path: '/api/orgs/:org/api-tokens', permission: 'tokens.manage' },
+  { file: 'orgs/[org]/api-tokens/index.post.ts', method: 'POST', path: '/api/orgs/:org/api-tokens', permission: 'tokens.manage', body: { name: 'Intruder token', scope: 'read_write' } },
+  { file: 'orgs/[org]/api-tokens/[id]/revoke.post.ts', method: 'POST', path: '/api/orgs/:org/api-tokens/:id/revoke', permission: 'tokens.manage', idKind: 'apiToken' },
+  { file: 'orgs/[org]/api-tokens/[id]/requests.get.ts', method: 'GET', path: '/api/orgs/:org/api-tokens/:id/requests', permission: 'tokens.manage', idKind: 'apiToken' },
+  // Survey reports (PDF) and the thermographer's qualification printed on them.
+  { file: 'orgs/[org]/surveys/[id]/reports/index.post.ts', method: 'POST', path: '/api/orgs/:org/surveys/:id/reports', permission: 'reports.create', body: { includeImages: false }, idKind: 'survey' },
+  { file: 'orgs/[org]/surveys/[id]/reports/index.get.ts', method: 'GET', path: '/api/orgs/:org/surveys/:id/reports', permission: 'reports.view', idKind: 'survey' },
+  { file: 'orgs/[org]/reports/[id]/index.get.ts', method: 'GET', path: '/api/orgs/:org/reports/:id', permission: 'reports.view', idKind: 'report' },
+  { file: 'orgs/[org]/reports/[id]/download.get.ts', method: 'GET', path: '/api/orgs/:org/reports/:id/download', permission: 'reports.view', idKind: 'report' },
+  { file: 'orgs/[org]/members/[id]/qualification.post.ts', method: 'POST', path: '/api/orgs/:org/members/:id/qualification', permission: 'members.manage', body: { qualification: 'Set by an intruder' }, idKind: 'member' },
+  // Work orders, verifications and the timeline (idKind 'workOrderAttachment' fills :id with '<workOrderId>/attachments/<attachmentId>').
+  { file: 'orgs/[org]/work-orders/index.get.ts', method: 'GET', path: '/api/orgs/:org/work-orders', permission: 'workorders.view' },
+  { file: 'orgs/[org]/work-orders/index.post.ts', method: 'POST', path: '/api/orgs/:org/work-orders', permission: 'workorders.raise', body: { findingIds: ['00000000-0000-4000-8000-000000000000'] } },
+  { file: 'orgs/[org]/work-orders/candidates.get.ts', method: 'GET', path: '/api/orgs/:org/work-orders/candidates', permission: 'workorders.raise' },
+  { file: 'orgs/[org]/work-orders/people.get.ts', method: 'GET', path: '/api/orgs/:org/work-orders/people', permission: 'workorders.view' },
+  { file: 'orgs/[org]/work-orders/settings.get.ts', method: 'GET', path: '/api/orgs/:org/work-orders/settings', permission: 'workorders.view' },
+  { file: 'orgs/[org]/work-orders/settings.patch.ts', method: 'PATCH', path: '/api/orgs/:org/work-orders/settings', permission: 'organisation.manage', body: { repairDaysBand1: 0, version: 1 } },
+  { file: 'orgs/[org]/work-orders/[id]/index.get.ts', method: 'GET', path: '/api/orgs/:org/work-orders/:id', permission: 'workorders.view', idKind: 'workOrder' },
+  { file: 'orgs/[org]/work-orders/[id]/index.patch.ts', method: 'PATCH', path: '/api/orgs/:org/work-orders/:id', permission: 'workorders.raise', body: { title: 'Renamed by intruder', version: 1 }, idKind: 'workOrder' },
+  { file: 'orgs/[org]/work-orders/[id]/move.post.ts', method: 'POST', path: '/api/orgs/:org/work-orders/:id/move', permission: 'workorders.work', body: { to: 'planned', version: 1 }, idKind: 'workOrder' },
+  { file: 'orgs/[org]/work-orders/[id]/work.post.ts', method: 'POST', path: '/api/orgs/:org/work-orders/:id/work', permission: 'workorders.work', body: { causeFound: 'Written by an intruder', version: 1 }, idKind: 'workOrder' },
+  { file: 'orgs/[org]/work-orders/[id]/defer.post.ts', method: 'POST', path: '/api/orgs/:org/work-orders/:id/defer', permission: 'workorders.work', body: { reason: 'Deferred by an intruder', until: '2030-01-01', version: 1 }, idKind: 'workOrder' },
+  { file: 'orgs/[org]/work-orders/[id]/cancel.post.ts', method: 'POST', path: '/api/orgs/:org/work-orders/:id/cancel', permission: 'workorders.cancel', body: { reason: 'Cancelled by an intruder', version: 1 }, idKind: 'workOrder' },
+  { file: 'orgs/[org]/work-orders/[id]/attachments/index.get.ts', method: 'GET', path: '/api/orgs/:org/work-orders/:id/attachments', permission: 'workorders.view', idKind: 'workOrder' },
+  { file: 'orgs/[org]/work-orders/[id]/attachments/index.post.ts', method: 'POST', path: '/api/orgs/:org/work-orders/:id/attachments', permission: 'workorders.work', body: { kind: 'repair', fileName: 'intruder.png', contentType: 'image/png', sizeBytes: 100 }, idKind: 'workOrder' },
+  { file: 'orgs/[org]/work-orders/[id]/attachments/[attachmentId]/complete.post.ts', method: 'POST', path: '/api/orgs/:org/work-orders/:id/complete', permission: 'workorders.work', idKind: 'workOrderAttachment' },
+  { file: 'orgs/[org]/work-orders/[id]/attachments/[attachmentId]/file.get.ts', method: 'GET', path: '/api/orgs/:org/work-orders/:id/file', permission: 'workorders.view', idKind: 'workOrderAttachment' },
+  { file: 'orgs/[org]/verifications/index.get.ts', method: 'GET', path: '/api/orgs/:org/verifications', permission: 'workorders.view' },
+  { file: 'orgs/[org]/verifications/[id]/index.get.ts', method: 'GET', path: '/api/orgs/:org/verifications/:id', permission: 'workorders.view', idKind: 'verification' },
+  { file: 'orgs/[org]/verifications/[id]/index.patch.ts', method: 'PATCH', path: '/api/orgs/:org/verifications/:id', permission: 'workorders.raise', body: { thermographerId: null, version: 1 }, idKind: 'verification' },
+  { file: 'orgs/[org]/verifications/[id]/reading.post.ts', method: 'POST', path: '/api/orgs/:org/verifications/:id/reading', permission: 'verifications.record', body: { apparentC: 50, emissivity: 0.9, reflectedC: 20, reflectedMethod: 'direct', instrumentId: '00000000-0000-4000-8000-000000000000', version: 1 }, idKind: 'verification' },
+  { file: 'orgs/[org]/findings/[id]/timeline.get.ts', method: 'GET', path: '/api/orgs/:org/findings/:id/timeline', permission: 'surveys.view', idKind: 'finding' },
 ]
