@@ -3,7 +3,7 @@ import type { z } from 'zod'
 import type { Database } from '~~/db/database'
 import type { FindingRow } from '~~/db/tables/findings'
 import { ZERO_CELSIUS_K, correctionChain, isThermalInputError } from '#shared/thermal/index'
-import { FINDING_ENGINE_FIELDS, findingChainInput, type findingSchema } from '#shared/schemas/survey'
+import { FINDING_ENGINE_FIELDS, findingChainInput, type FindingValues, type findingSchema } from '#shared/schemas/survey'
 import type { FindingExtras } from '#shared/types/finding'
 import { num } from './paging'
 
@@ -51,6 +51,71 @@ export async function assertSurface(trx: Db, ctx: MemberContext, surfaceId: stri
 
 const kToC = (k: number) => k - ZERO_CELSIUS_K
 
+/** The imager fields the engine needs, as read from an `instruments` row. */
+export interface EngineInstrumentRow {
+  band_from_um: string | number
+  band_to_um: string | number
+  accuracy_k: string | number | null
+  accuracy_pct: string | number | null
+  ifov_mrad: string | number | null
+  calibration_due: string | null
+}
+
+/** Selects an instrument of the organisation with the columns the engine needs (tenant condition inside). */
+export function engineInstrumentQuery(trx: Db, orgId: string, instrumentId: string) {
+  return trx.selectFrom('instruments').select(['band_from_um', 'band_to_um', 'accuracy_k', 'accuracy_pct', 'ifov_mrad', 'archived_at'])
+    .select(sql<string | null>`to_char(calibration_due, 'YYYY-MM-DD')`.as('calibration_due'))
+    .where('organisation_id', '=', orgId).where('id', '=', instrumentId)
+}
+
+/**
+ * Runs the correction chain on the server for a reading (findings and verification re-scans alike); client figures
+ * are never trusted. A reading the engine cannot explain is a 400 at the field it came from.
+ */
+export function serverChain(inst: EngineInstrumentRow, input: FindingValues, opts: { criteriaId: string; today: string }) {
+  const { reading, options } = findingChainInput(input, {
+    bandFromUm: Number(inst.band_from_um), bandToUm: Number(inst.band_to_um), accuracyK: num(inst.accuracy_k),
+    accuracyPct: num(inst.accuracy_pct), ifovMrad: num(inst.ifov_mrad), calibrationDue: inst.calibration_due,
+  }, opts)
+  try {
+    return correctionChain(reading, options)
+  } catch (e) {
+    if (isThermalInputError(e)) fieldError(FINDING_ENGINE_FIELDS[e.field ?? ''] ?? 'apparentC', e.message)
+    throw e
+  }
+}
+
+type Chain = ReturnType<typeof correctionChain>
+type ReadingInput = Pick<FindingValues, 'apparentC' | 'referenceC' | 'ambientC' | 'emissivity' | 'reflectedC' | 'reflectedMethod'
+  | 'distanceM' | 'transmittance' | 'windowTransmittance' | 'windowC' | 'loadA' | 'ratedA' | 'windMs'>
+
+/** The reading's inputs as stored (°C, metres, A, m/s) — the same columns on findings and verifications. */
+export function readingColumns(input: ReadingInput) {
+  return {
+    apparent_c: input.apparentC!, reference_c: input.referenceC ?? null, ambient_c: input.ambientC ?? null, emissivity: input.emissivity!,
+    reflected_c: input.reflectedC!, reflected_method: input.reflectedMethod, distance_m: input.distanceM ?? null,
+    transmittance: input.transmittance ?? null, window_transmittance: input.windowTransmittance ?? null, window_c: input.windowC ?? null,
+    load_a: input.loadA ?? null, rated_a: input.ratedA ?? null, wind_ms: input.windMs ?? null,
+  }
+}
+
+/** What the engine computed, as stored beside the inputs, with the criteria set's id and version it ranked with. */
+export function computedColumns(chain: Chain) {
+  return {
+    object_c: kToC(chain.hotObjectK),
+    rise_over_reference_k: chain.measured.overReferenceK ?? null,
+    rise_over_ambient_k: chain.measured.overAmbientK ?? null,
+    load_scaled_rise_k: chain.loadFactor !== null ? (chain.ranked.overReferenceK ?? chain.ranked.overAmbientK ?? null) : null,
+    band: chain.rank.band,
+    band_basis: chain.rank.basis,
+    uncertainty_low_c: chain.hotInterval ? kToC(chain.hotInterval.low) : null,
+    uncertainty_high_c: chain.hotInterval ? kToC(chain.hotInterval.high) : null,
+    warnings: JSON.stringify(chain.warnings),
+    criteria_id: chain.rank.criteriaId,
+    criteria_version: chain.rank.criteriaVersion,
+  }
+}
+
 /**
  * Runs the engine on the server for a finding's inputs with the survey's instrument and date, and returns the
  * columns to store (inputs and computed values). A reading the engine cannot explain is a 400 at its field.
@@ -62,41 +127,15 @@ export async function findingColumns(
   input: z.output<typeof findingSchema>,
   criteriaId: string,
 ) {
-  const inst = await trx.selectFrom('instruments').select(['band_from_um', 'band_to_um', 'accuracy_k', 'accuracy_pct', 'ifov_mrad'])
-    .select(sql<string | null>`to_char(calibration_due, 'YYYY-MM-DD')`.as('calibration_due'))
-    .where('organisation_id', '=', ctx.org.id).where('id', '=', survey.instrument_id).executeTakeFirstOrThrow()
-  const { reading, options } = findingChainInput(input, {
-    bandFromUm: Number(inst.band_from_um), bandToUm: Number(inst.band_to_um), accuracyK: num(inst.accuracy_k),
-    accuracyPct: num(inst.accuracy_pct), ifovMrad: num(inst.ifov_mrad), calibrationDue: inst.calibration_due,
-  }, { criteriaId, today: survey.day })
-  let chain: ReturnType<typeof correctionChain>
-  try {
-    chain = correctionChain(reading, options)
-  } catch (e) {
-    if (isThermalInputError(e)) fieldError(FINDING_ENGINE_FIELDS[e.field ?? ''] ?? 'apparentC', e.message)
-    throw e
-  }
-  const scaled = chain.loadFactor !== null ? (chain.ranked.overReferenceK ?? chain.ranked.overAmbientK ?? null) : null
+  const inst = await engineInstrumentQuery(trx, ctx.org.id, survey.instrument_id).executeTakeFirstOrThrow()
+  const chain = serverChain(inst, input, { criteriaId, today: survey.day })
   return {
     component: input.component, phase: input.phase ?? '',
-    apparent_c: input.apparentC!, reference_c: input.referenceC ?? null, ambient_c: input.ambientC ?? null, emissivity: input.emissivity!,
-    reflected_c: input.reflectedC!, reflected_method: input.reflectedMethod, distance_m: input.distanceM ?? null,
-    transmittance: input.transmittance ?? null, window_transmittance: input.windowTransmittance ?? null, window_c: input.windowC ?? null,
-    load_a: input.loadA ?? null, rated_a: input.ratedA ?? null, wind_ms: input.windMs ?? null,
+    ...readingColumns(input),
     probable_cause: input.probableCause, cause_notes: input.causeNotes ?? '', notes: input.notes ?? '',
     surface_id: input.surfaceId ?? null,
-    object_c: kToC(chain.hotObjectK),
-    rise_over_reference_k: chain.measured.overReferenceK ?? null,
-    rise_over_ambient_k: chain.measured.overAmbientK ?? null,
-    load_scaled_rise_k: scaled,
-    band: chain.rank.band,
-    band_basis: chain.rank.basis,
+    ...computedColumns(chain),
     action: chain.rank.action,
     repair_deadline_days: chain.rank.repairDeadlineDays,
-    uncertainty_low_c: chain.hotInterval ? kToC(chain.hotInterval.low) : null,
-    uncertainty_high_c: chain.hotInterval ? kToC(chain.hotInterval.high) : null,
-    warnings: JSON.stringify(chain.warnings),
-    criteria_id: chain.rank.criteriaId,
-    criteria_version: chain.rank.criteriaVersion,
   }
 }

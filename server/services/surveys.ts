@@ -1,11 +1,9 @@
 import { sql, type Transaction } from 'kysely'
 import type { z } from 'zod'
 import type { Database } from '~~/db/database'
-import { ZERO_CELSIUS_K, correctionChain, isThermalInputError, type ReadingWarning } from '#shared/thermal/index'
+import type { ReadingWarning } from '#shared/thermal/index'
 import { todayIn } from '#shared/schedule'
 import {
-  FINDING_ENGINE_FIELDS,
-  findingChainInput,
   type checkSchema,
   type findingListQuerySchema,
   type surveyConditionsSchema,
@@ -19,7 +17,7 @@ import type { FindingListItem, SurveyAsset, SurveyDetail, SurveyFinding, SurveyL
 import type { Page } from '#shared/types/programme'
 import { changedMeanwhile, num, pageWindow } from './paging'
 import { notifyBandOneFinding } from './notices'
-import { assertSurface, effectiveBandSql, findingExtras, reviewerNameSql, type FindingRowWithReviewer } from './finding-parts'
+import { assertSurface, effectiveBandSql, findingColumns, findingExtras, reviewerNameSql, type FindingRowWithReviewer } from './finding-parts'
 import { linkGridToFinding } from './temperature-grids'
 
 type Db = ReturnType<typeof useDb> | Transaction<Database>
@@ -397,8 +395,6 @@ export async function recordConditions(
   return getSurvey(ctx, surveyId)
 }
 
-const kToC = (k: number) => k - ZERO_CELSIUS_K
-
 /**
  * Records a finding: the inputs are validated, the engine is run here on the server (client figures are never
  * trusted), and the inputs, the computed values and the criteria set's id and version are stored together.
@@ -410,45 +406,10 @@ export async function recordFinding(ctx: MemberContext, surveyId: string, input:
     assertRecording(s)
     await assetInSurvey(trx, ctx, surveyId, input.assetId)
     await assertSurface(trx, ctx, input.surfaceId)
-    const inst = await trx.selectFrom('instruments').select(['band_from_um', 'band_to_um', 'accuracy_k', 'accuracy_pct', 'ifov_mrad'])
-      .select(sql<string | null>`to_char(calibration_due, 'YYYY-MM-DD')`.as('calibration_due'))
-      .where('organisation_id', '=', ctx.org.id).where('id', '=', s.instrument_id).executeTakeFirstOrThrow()
-    const { reading, options } = findingChainInput(input, {
-      bandFromUm: Number(inst.band_from_um), bandToUm: Number(inst.band_to_um), accuracyK: num(inst.accuracy_k),
-      accuracyPct: num(inst.accuracy_pct), ifovMrad: num(inst.ifov_mrad), calibrationDue: inst.calibration_due,
-    }, { criteriaId: DEFAULT_CRITERIA_ID, today: s.day })
-    let chain: ReturnType<typeof correctionChain>
-    try {
-      chain = correctionChain(reading, options)
-    } catch (e) {
-      // A reading the engine cannot explain is the person's to fix: point at the field it came from.
-      if (isThermalInputError(e)) fieldError(FINDING_ENGINE_FIELDS[e.field ?? ''] ?? 'apparentC', e.message)
-      throw e
-    }
+    const columns = await findingColumns(trx, ctx, s, input, DEFAULT_CRITERIA_ID)
     const checkId = await upsertCheck(trx, ctx, surveyId, { assetId: input.assetId, outcome: 'finding', note: '' })
-    const scaled = chain.loadFactor !== null ? (chain.ranked.overReferenceK ?? chain.ranked.overAmbientK ?? null) : null
-    const row = await trx.insertInto('findings').values({
-      organisation_id: ctx.org.id, check_id: checkId, component: input.component, phase: input.phase ?? '',
-      apparent_c: input.apparentC!, reference_c: input.referenceC ?? null, ambient_c: input.ambientC ?? null, emissivity: input.emissivity!,
-      reflected_c: input.reflectedC!, reflected_method: input.reflectedMethod, distance_m: input.distanceM ?? null,
-      transmittance: input.transmittance ?? null, window_transmittance: input.windowTransmittance ?? null, window_c: input.windowC ?? null,
-      load_a: input.loadA ?? null, rated_a: input.ratedA ?? null, wind_ms: input.windMs ?? null,
-      probable_cause: input.probableCause, cause_notes: input.causeNotes ?? '', notes: input.notes ?? '',
-      surface_id: input.surfaceId ?? null,
-      object_c: kToC(chain.hotObjectK),
-      rise_over_reference_k: chain.measured.overReferenceK ?? null,
-      rise_over_ambient_k: chain.measured.overAmbientK ?? null,
-      load_scaled_rise_k: scaled,
-      band: chain.rank.band,
-      band_basis: chain.rank.basis,
-      action: chain.rank.action,
-      repair_deadline_days: chain.rank.repairDeadlineDays,
-      uncertainty_low_c: chain.hotInterval ? kToC(chain.hotInterval.low) : null,
-      uncertainty_high_c: chain.hotInterval ? kToC(chain.hotInterval.high) : null,
-      warnings: JSON.stringify(chain.warnings),
-      criteria_id: chain.rank.criteriaId,
-      criteria_version: chain.rank.criteriaVersion,
-    }).returningAll().executeTakeFirstOrThrow()
+    const row = await trx.insertInto('findings').values({ organisation_id: ctx.org.id, check_id: checkId, ...columns })
+      .returningAll().executeTakeFirstOrThrow()
     if (input.gridId) await linkGridToFinding(trx, ctx, { gridId: input.gridId, surveyId, assetId: input.assetId, findingId: row.id })
     await bump(trx, ctx, surveyId, {})
     // Band 1: the managers hear of it at once (notice in the same transaction; e-mail through the outbox).

@@ -5,14 +5,14 @@ import { sql, type Transaction } from 'kysely'
 import type { z } from 'zod'
 import type { Database } from '~~/db/database'
 import type { VerificationRow } from '~~/db/tables/verifications'
-import { ZERO_CELSIUS_K, correctionChain, isThermalInputError } from '#shared/thermal/index'
 import { can, type Role } from '#shared/permissions'
-import { FINDING_ENGINE_FIELDS, findingChainInput, type FindingValues } from '#shared/schemas/survey'
+import type { FindingValues } from '#shared/schemas/survey'
 import type { verificationAssignSchema, verificationListQuerySchema, verificationReadingSchema } from '#shared/schemas/work-order'
 import type { Page } from '#shared/types/programme'
 import type { VerificationItem } from '#shared/types/work-order'
 import { workOrderReference } from '#shared/work-orders'
 import { changedMeanwhile, num, pageWindow } from './paging'
+import { computedColumns, engineInstrumentQuery, readingColumns, serverChain } from './finding-parts'
 import { recordEvent } from './record-events'
 import { closeWorkOrder, findingQuery, lockWorkOrder, readingOf, reopenWorkOrder, workOrderSettings, type LockedWorkOrder } from './work-orders'
 
@@ -21,8 +21,6 @@ type Db = ReturnType<typeof useDb> | Transaction<Database>
 function conflict(message: string): never {
   throw createError({ statusCode: 409, statusMessage: 'Conflict', data: { message } })
 }
-
-const kToC = (k: number) => k - ZERO_CELSIUS_K
 
 function verificationQuery(db: Db, orgId: string) {
   return db.selectFrom('verifications as v')
@@ -191,9 +189,7 @@ export async function recordVerification(ctx: MemberContext, id: string, input: 
     if (v.thermographer_id && v.thermographer_id !== ctx.user.id && ctx.member.role === 'thermographer') {
       throw createError({ statusCode: 403, statusMessage: 'Not your verification', data: { message: 'This verification is assigned to another thermographer.' } })
     }
-    const inst = await trx.selectFrom('instruments').select(['band_from_um', 'band_to_um', 'accuracy_k', 'accuracy_pct', 'ifov_mrad'])
-      .select(sql<string | null>`to_char(calibration_due, 'YYYY-MM-DD')`.as('calibration_due'))
-      .where('organisation_id', '=', ctx.org.id).where('id', '=', input.instrumentId).where('archived_at', 'is', null).executeTakeFirst()
+    const inst = await engineInstrumentQuery(trx, ctx.org.id, input.instrumentId).where('archived_at', 'is', null).executeTakeFirst()
     if (!inst) fieldError('instrumentId', 'Choose an imager of this organisation that is not archived.')
     if (input.surveyId) {
       const s = await trx.selectFrom('surveys as s')
@@ -205,47 +201,24 @@ export async function recordVerification(ctx: MemberContext, id: string, input: 
     const finding = await trx.selectFrom('findings').select(['id', 'component', 'criteria_id'])
       .where('organisation_id', '=', ctx.org.id).where('id', '=', v.finding_id).executeTakeFirstOrThrow()
     const { today } = await workOrderSettings(trx, ctx.org.id)
-    const { reading, options } = findingChainInput(input as unknown as FindingValues, {
-      bandFromUm: Number(inst.band_from_um), bandToUm: Number(inst.band_to_um), accuracyK: num(inst.accuracy_k),
-      accuracyPct: num(inst.accuracy_pct), ifovMrad: num(inst.ifov_mrad), calibrationDue: inst.calibration_due,
-    }, { criteriaId: finding.criteria_id, today })
-    let chain: ReturnType<typeof correctionChain>
-    try {
-      chain = correctionChain(reading, options)
-    } catch (e) {
-      if (isThermalInputError(e)) fieldError(FINDING_ENGINE_FIELDS[e.field ?? ''] ?? 'apparentC', e.message)
-      throw e
-    }
+    const chain = serverChain(inst, input as unknown as FindingValues, { criteriaId: finding.criteria_id, today })
     const passed = chain.rank.band === null
-    const objectC = kToC(chain.hotObjectK)
-    const scaled = chain.loadFactor !== null ? (chain.ranked.overReferenceK ?? chain.ranked.overAmbientK ?? null) : null
+    const computed = computedColumns(chain)
     const now = new Date()
     await trx.updateTable('verifications').set({
       state: passed ? 'passed' : 'failed',
       thermographer_id: v.thermographer_id ?? ctx.user.id,
       survey_id: input.surveyId ?? null,
       instrument_id: input.instrumentId,
-      apparent_c: input.apparentC!, reference_c: input.referenceC ?? null, ambient_c: input.ambientC ?? null, emissivity: input.emissivity!,
-      reflected_c: input.reflectedC!, reflected_method: input.reflectedMethod, distance_m: input.distanceM ?? null,
-      transmittance: input.transmittance ?? null, window_transmittance: input.windowTransmittance ?? null, window_c: input.windowC ?? null,
-      load_a: input.loadA ?? null, rated_a: input.ratedA ?? null, wind_ms: input.windMs ?? null, notes: input.notes ?? '',
-      object_c: objectC,
-      rise_over_reference_k: chain.measured.overReferenceK ?? null,
-      rise_over_ambient_k: chain.measured.overAmbientK ?? null,
-      load_scaled_rise_k: scaled,
-      band: chain.rank.band,
-      band_basis: chain.rank.basis,
-      uncertainty_low_c: chain.hotInterval ? kToC(chain.hotInterval.low) : null,
-      uncertainty_high_c: chain.hotInterval ? kToC(chain.hotInterval.high) : null,
-      warnings: JSON.stringify(chain.warnings),
-      criteria_id: chain.rank.criteriaId,
-      criteria_version: chain.rank.criteriaVersion,
+      ...readingColumns(input),
+      notes: input.notes ?? '',
+      ...computed,
       recorded_by: ctx.user.id,
       recorded_at: now,
       version: sql`version + 1`,
       updated_at: now,
     }).where('organisation_id', '=', ctx.org.id).where('id', '=', id).execute()
-    const details = { component: finding.component, findingId: finding.id, objectC: Number(objectC.toFixed(1)), band: chain.rank.band, basis: chain.rank.basis }
+    const details = { component: finding.component, findingId: finding.id, objectC: Number(computed.object_c.toFixed(1)), band: chain.rank.band, basis: chain.rank.basis }
     await recordEvent(trx, {
       organisationId: ctx.org.id, subjectKind: 'verification', subjectId: id, workOrderId: wo.id, actorId: ctx.user.id,
       action: passed ? 'verification_passed' : 'verification_failed', details,
@@ -264,7 +237,7 @@ export async function recordVerification(ctx: MemberContext, id: string, input: 
       else await trx.updateTable('work_orders').set({ version: sql`version + 1`, updated_at: now }).where('organisation_id', '=', ctx.org.id).where('id', '=', wo.id).execute()
     } else {
       await withdrawWaiting(trx, ctx, wo.id, `The re-scan of ${finding.component} still ranks; the work order went back to open.`)
-      await reopenWorkOrder(trx, ctx, wo, { verificationId: id, band: chain.rank.band!, component: finding.component, objectC })
+      await reopenWorkOrder(trx, ctx, wo, { verificationId: id, band: chain.rank.band!, component: finding.component, objectC: computed.object_c })
     }
   })
   return getVerification(ctx, id)
