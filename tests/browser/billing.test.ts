@@ -1,7 +1,7 @@
 import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { signUpOwner } from '../support/api'
-import { expectAccessible, launchBrowser, newSession } from '../support/browser'
+import { expectAccessible, launchBrowser, newSession, signInWithForm } from '../support/browser'
 import { resetDatabase, testDb } from '../support/db'
 import { stripeFake } from '../support/stripe'
 
@@ -20,11 +20,7 @@ afterAll(async () => {
 })
 
 async function signIn(page: Page, email: string, password: string) {
-  await page.goto('/sign-in')
-  await page.getByLabel('E-mail').fill(email)
-  await page.getByLabel('Password').fill(password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await page.waitForURL(/\/orgs\//)
+  await signInWithForm(page, email, password)
 }
 
 describe('billing in the browser', () => {

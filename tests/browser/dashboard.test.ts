@@ -1,7 +1,7 @@
 import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { signUpOwner } from '../support/api'
-import { expectAccessible, launchBrowser, newSession } from '../support/browser'
+import { expectAccessible, launchBrowser, newSession, signInWithForm } from '../support/browser'
 import { resetDatabase } from '../support/db'
 import { orgIdOf } from '../support/programme-fixtures'
 import { PERIOD, seedDashboardScenario, type Scenario } from '../support/dashboard-scenario'
@@ -27,11 +27,7 @@ afterAll(async () => {
 
 async function signedIn(): Promise<Page> {
   const { page } = await newSession(browser)
-  await page.goto('/sign-in')
-  await page.getByLabel('E-mail').fill(email)
-  await page.getByLabel('Password').fill(password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await page.waitForURL(/\/orgs\//)
+  await signInWithForm(page, email, password)
   return page
 }
 

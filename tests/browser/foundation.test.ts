@@ -1,7 +1,7 @@
 import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { linkIn, mailFor } from '../support/api'
-import { expectAccessible, launchBrowser, newSession } from '../support/browser'
+import { expectAccessible, launchBrowser, newSession, signInWithForm } from '../support/browser'
 import { resetDatabase } from '../support/db'
 
 let browser: Browser
@@ -15,10 +15,7 @@ afterAll(async () => {
 })
 
 async function signIn(page: Page, email: string, password: string) {
-  await page.goto('/sign-in')
-  await page.getByLabel('E-mail').fill(email)
-  await page.getByLabel('Password', { exact: true }).fill(password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
+  await signInWithForm(page, email, password, { landing: false })
 }
 
 async function signOut(page: Page) {

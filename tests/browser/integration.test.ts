@@ -1,6 +1,6 @@
 import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
-import { expectAccessible, launchBrowser, newSession } from '../support/browser'
+import { expectAccessible, launchBrowser, newSession, signInWithForm } from '../support/browser'
 import { resetDatabase } from '../support/db'
 import { makeOrg, surveyWith, withToken, type Org } from '../support/integration-fixtures'
 
@@ -21,11 +21,7 @@ afterAll(async () => {
 })
 
 async function signIn(page: Page) {
-  await page.goto('/sign-in')
-  await page.getByLabel('E-mail').fill('browse-owner@integration.test')
-  await page.getByLabel('Password').fill(password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await page.waitForURL(/\/orgs\//)
+  await signInWithForm(page, 'browse-owner@integration.test', password)
 }
 
 describe('trends', () => {

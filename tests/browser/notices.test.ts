@@ -2,7 +2,7 @@ import type { Browser } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { inject } from 'vitest'
 import { ApiClient, linkIn, signUpOwner } from '../support/api'
-import { expectAccessible, launchBrowser, newSession } from '../support/browser'
+import { expectAccessible, launchBrowser, newSession, signInWithForm } from '../support/browser'
 import { resetDatabase, testDb } from '../support/db'
 
 let browser: Browser
@@ -31,11 +31,7 @@ afterAll(async () => {
 describe('notices in the app', () => {
   it('shows the unread count in the header, the list, and marks a notice read', async () => {
     const { context, page } = await newSession(browser)
-    await page.goto('/sign-in')
-    await page.getByLabel('E-mail').fill(ownerEmail)
-    await page.getByLabel('Password').fill(password)
-    await page.getByRole('button', { name: 'Sign in' }).click()
-    await page.waitForURL(/\/orgs\//)
+    await signInWithForm(page, ownerEmail, password)
     const bell = page.getByRole('link', { name: 'Notices, 1 unread' })
     await bell.waitFor()
     await bell.click()

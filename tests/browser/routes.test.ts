@@ -1,7 +1,7 @@
 import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import { ApiClient, linkIn, mailFor, signUpOwner } from '../support/api'
-import { expectAccessible, launchBrowser, newSession } from '../support/browser'
+import { expectAccessible, launchBrowser, newSession, signInWithForm } from '../support/browser'
 import { resetDatabase } from '../support/db'
 import { insertAssets, insertSites, orgIdOf } from '../support/programme-fixtures'
 import { routeEstimate, shortestOrder } from '../../shared/route-plan'
@@ -41,11 +41,7 @@ afterAll(async () => {
 })
 
 async function signIn(page: Page) {
-  await page.goto('/sign-in')
-  await page.getByLabel('E-mail').fill('mia@browser-routes.test')
-  await page.getByLabel('Password').fill(password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await page.waitForURL(/\/orgs\//)
+  await signInWithForm(page, 'mia@browser-routes.test', password)
 }
 
 function bruteForceShortestKm(stops: Array<{ lat: number; lon: number }>): number {

@@ -1,7 +1,7 @@
 import type { Browser } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { ApiClient, linkIn, mailFor, signUpOwner } from '../support/api'
-import { expectAccessible, launchBrowser, newSession } from '../support/browser'
+import { expectAccessible, launchBrowser, newSession, signInWithForm } from '../support/browser'
 import { resetDatabase, testDb } from '../support/db'
 
 // The field screen without a connection: what is saved is kept on the phone, shown as waiting, and sent exactly
@@ -39,11 +39,7 @@ afterAll(async () => {
 describe('the field screen without a connection', () => {
   it('keeps a check and a finding on the phone, then sends each exactly once', async () => {
     const { context, page } = await newSession(browser, { phone: true })
-    await page.goto('/sign-in')
-    await page.getByLabel('E-mail').fill(email)
-    await page.getByLabel('Password').fill(password)
-    await page.getByRole('button', { name: 'Sign in' }).click()
-    await page.waitForURL(/\/orgs\//)
+    await signInWithForm(page, email, password)
     await page.goto(`/orgs/${slug}/surveys/${surveyId}`)
     await expect.poll(() => page.getByText('Site 1 of 1').count()).toBe(1)
 
@@ -106,11 +102,7 @@ describe('the field screen without a connection', () => {
 
   it('shows a record the server refuses beside it, with the reason, until the person discards it', async () => {
     const { context, page } = await newSession(browser, { phone: true })
-    await page.goto('/sign-in')
-    await page.getByLabel('E-mail').fill(email)
-    await page.getByLabel('Password').fill(password)
-    await page.getByRole('button', { name: 'Sign in' }).click()
-    await page.waitForURL(/\/orgs\//)
+    await signInWithForm(page, email, password)
     await page.goto(`/orgs/${slug}/surveys/${surveyId}`)
     await expect.poll(() => page.getByText('Site 1 of 1').count()).toBe(1)
     // Offline, T1 (which holds a finding from the first test) is tapped clear; the server will refuse that.
@@ -139,11 +131,7 @@ describe('review and history', () => {
     expect((await thermo.post(`/api/orgs/${slug}/surveys/${surveyId}/submit`, { version: detail.body.version })).status).toBe(200)
     const t1Id = detail.body.sites[0].assets.find((a: { label: string }) => a.label === 'T1').id as string
     const { context, page } = await newSession(browser)
-    await page.goto('/sign-in')
-    await page.getByLabel('E-mail').fill('oda@offline.test')
-    await page.getByLabel('Password').fill('correct horse battery')
-    await page.getByRole('button', { name: 'Sign in' }).click()
-    await page.waitForURL(/\/orgs\//)
+    await signInWithForm(page, 'oda@offline.test', 'correct horse battery')
     await page.goto(`/orgs/${slug}/surveys/${surveyId}/review`)
     await expect.poll(() => page.getByText('Sites planned').count()).toBe(1)
     await page.getByRole('button', { name: 'Correct the band…' }).click()

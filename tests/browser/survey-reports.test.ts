@@ -1,7 +1,7 @@
 import type { Browser } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { ApiClient, linkIn, mailFor, signUpOwner } from '../support/api'
-import { expectAccessible, launchBrowser, newSession } from '../support/browser'
+import { expectAccessible, launchBrowser, newSession, signInWithForm } from '../support/browser'
 import { resetDatabase } from '../support/db'
 import { reviewedSurvey } from '../support/reports'
 
@@ -39,11 +39,7 @@ afterAll(async () => {
 describe('the survey report on the review page', () => {
   it('shows progress while the report is made, then a link that downloads the PDF', { timeout: 180_000 }, async () => {
     const { context, page } = await newSession(browser)
-    await page.goto('/sign-in')
-    await page.getByLabel('E-mail').fill(ownerEmail)
-    await page.getByLabel('Password').fill(ownerPassword)
-    await page.getByRole('button', { name: 'Sign in' }).click()
-    await page.waitForURL(/\/orgs\//)
+    await signInWithForm(page, ownerEmail, ownerPassword)
     await page.goto(`/orgs/${slug}/surveys/${surveyId}/review`)
     // The button works once the page is hydrated (before that a press would be a plain form post).
     await page.waitForFunction(() => Boolean((document.querySelector('#__nuxt') as unknown as { __vue_app__?: unknown } | null)?.__vue_app__), undefined, { timeout: 30_000 })

@@ -1,7 +1,7 @@
 import type { Browser } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { ApiClient, linkIn, mailFor, signUpOwner } from '../support/api'
-import { expectAccessible, launchBrowser, newSession } from '../support/browser'
+import { expectAccessible, launchBrowser, newSession, signInWithForm } from '../support/browser'
 import { resetDatabase } from '../support/db'
 import { jpegBytes, pngBytes } from '../support/images'
 
@@ -38,11 +38,7 @@ describe('the field screen on a phone', () => {
   const slow = { timeout: 20_000 }
   it('records a clear check and a finding with the live band', async () => {
     const { context, page } = await newSession(browser, { phone: true })
-    await page.goto('/sign-in')
-    await page.getByLabel('E-mail').fill(email)
-    await page.getByLabel('Password').fill(password)
-    await page.getByRole('button', { name: 'Sign in' }).click()
-    await page.waitForURL(/\/orgs\//)
+    await signInWithForm(page, email, password)
     await page.goto(`/orgs/${slug}/surveys/${surveyId}`)
     await expect.poll(() => page.getByText('Site 1 of 1').count()).toBe(1)
     await expectAccessible(page, 'survey field screen')
@@ -86,11 +82,7 @@ describe('the field screen on a phone', () => {
       })
     }
     const { context, page } = await newSession(browser, { phone: true })
-    await page.goto('/sign-in')
-    await page.getByLabel('E-mail').fill(email)
-    await page.getByLabel('Password').fill(password)
-    await page.getByRole('button', { name: 'Sign in' }).click()
-    await page.waitForURL(/\/orgs\//)
+    await signInWithForm(page, email, password)
     await page.goto(`/orgs/${slug}/surveys/${surveyId}`)
     const images = page.locator('li[data-asset="T1"]').getByTestId('finding-images')
     await images.getByRole('button', { name: 'Add images' }).click()
@@ -136,11 +128,7 @@ describe('the field screen on a phone', () => {
 
     // The manager sees the thumbnails on the review screen and in the findings list.
     const manager = await newSession(browser)
-    await manager.page.goto('/sign-in')
-    await manager.page.getByLabel('E-mail').fill('ora@browser-survey.test')
-    await manager.page.getByLabel('Password').fill('correct horse battery')
-    await manager.page.getByRole('button', { name: 'Sign in' }).click()
-    await manager.page.waitForURL(/\/orgs\//)
+    await signInWithForm(manager.page, 'ora@browser-survey.test', 'correct horse battery')
     await manager.page.goto(`/orgs/${slug}/surveys/${surveyId}/review`)
     const reviewThumbs = manager.page.getByTestId('finding-thumbnails').getByRole('img')
     await expect.poll(() => reviewThumbs.count(), slow).toBe(1)

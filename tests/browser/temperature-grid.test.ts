@@ -1,7 +1,7 @@
 import type { Browser, Locator, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { ApiClient, linkIn, mailFor, signUpOwner } from '../support/api'
-import { expectAccessible, launchBrowser, newSession } from '../support/browser'
+import { expectAccessible, launchBrowser, newSession, signInWithForm } from '../support/browser'
 import { resetDatabase } from '../support/db'
 
 let browser: Browser
@@ -87,11 +87,7 @@ async function dragBox(page: Page, surface: Locator, from: [number, number], to:
 describe('a temperature grid in the finding form, on a phone', () => {
   it('attaches a CSV grid, reads it, marks hot spot and reference, and re-corrects with ε', async () => {
     const { context, page } = await newSession(browser, { phone: true })
-    await page.goto('/sign-in')
-    await page.getByLabel('E-mail').fill(email)
-    await page.getByLabel('Password').fill(password)
-    await page.getByRole('button', { name: 'Sign in' }).click()
-    await page.waitForURL(/\/orgs\//)
+    await signInWithForm(page, email, password)
     await page.goto(`/orgs/${slug}/surveys/${surveyId}`)
     await hydrated(page)
     const cb4 = page.locator('li[data-asset="CB4"]')
@@ -181,11 +177,7 @@ describe('a temperature grid in the finding form, on a phone', () => {
 
   it('opens a local grid on the workbench without saving it', async () => {
     const { context, page } = await newSession(browser, { phone: true })
-    await page.goto('/sign-in')
-    await page.getByLabel('E-mail').fill(email)
-    await page.getByLabel('Password').fill(password)
-    await page.getByRole('button', { name: 'Sign in' }).click()
-    await page.waitForURL(/\/orgs\//)
+    await signInWithForm(page, email, password)
     await page.goto(`/orgs/${slug}/workbench`)
     await hydrated(page)
     const panel = page.getByRole('region', { name: 'Temperature grid' })

@@ -1,7 +1,7 @@
 import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { ApiClient, linkIn, mailFor, signUpOwner } from '../support/api'
-import { expectAccessible, launchBrowser, newSession } from '../support/browser'
+import { expectAccessible, launchBrowser, newSession, signInWithForm } from '../support/browser'
 import { resetDatabase } from '../support/db'
 
 // The loop in the browser: a manager raises a work order from a finding, the crew works it on a phone up to
@@ -26,11 +26,7 @@ async function join(owner: ApiClient, role: keyof typeof emails, name: string) {
 }
 
 async function signIn(page: Page, email: string) {
-  await page.goto('/sign-in')
-  await page.getByLabel('E-mail').fill(email)
-  await page.getByLabel('Password').fill(password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await page.waitForURL(/\/orgs\//)
+  await signInWithForm(page, email, password)
 }
 
 beforeAll(async () => {

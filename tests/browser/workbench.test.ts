@@ -1,7 +1,7 @@
 import type { Browser } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { signUpOwner } from '../support/api'
-import { expectAccessible, launchBrowser, newSession } from '../support/browser'
+import { expectAccessible, launchBrowser, newSession, signInWithForm } from '../support/browser'
 import { resetDatabase } from '../support/db'
 
 let browser: Browser
@@ -18,10 +18,7 @@ afterAll(async () => {
 describe('the correction workbench in a browser', () => {
   it('corrects a shared reading, ranks it, and updates live as a value is typed', async () => {
     const { context, page } = await newSession(browser, { phone: true })
-    await page.goto('/sign-in')
-    await page.getByLabel('E-mail').fill('wren@workbench.test')
-    await page.getByLabel('Password', { exact: true }).fill('wren long password')
-    await page.getByRole('button', { name: 'Sign in' }).click()
+    await signInWithForm(page, 'wren@workbench.test', 'wren long password')
     await page.waitForURL('**/orgs/hale-power')
     // Reference sheet §5 [C] independent SciPy computation: 8–14 µm, T_app 50 °C, ε 0.5, T_refl 20 °C → 74.340 °C.
     await page.goto('/orgs/hale-power/workbench?hot=50&ambient=25&reflected=20&emissivity=0.5&band=lwir-8-14&exponent=2&criteria=neta-100-18')

@@ -40,3 +40,16 @@ export async function expectAccessible(page: Page, label: string): Promise<void>
   })
   expect(violations, `accessibility on ${label}`).toEqual([])
 }
+
+/**
+ * Signs in through the sign-in form. The page is loaded until the network is idle first: a click before Vue has
+ * hydrated the form would submit it natively and never reach the app's sign-in. By default it then waits to land
+ * in an organisation; `{ landing: false }` returns right after the click (for refusals).
+ */
+export async function signInWithForm(page: Page, email: string, password: string, opts: { landing?: boolean } = {}): Promise<void> {
+  await page.goto('/sign-in', { waitUntil: 'networkidle' })
+  await page.getByLabel('E-mail').fill(email)
+  await page.getByLabel('Password', { exact: true }).fill(password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+  if (opts.landing !== false) await page.waitForURL(/\/orgs\//, { timeout: 30_000 })
+}
