@@ -1,7 +1,7 @@
 import type { Attachment } from '#shared/types/attachment'
 
 /** Stored images of the findings a list shows, in one request (`GET findings/attachments?ids=…`), keyed by finding id. */
-export function useFindingThumbnails(slug: MaybeRefOrGetter<string | undefined>, findingIds: MaybeRefOrGetter<string[]>) {
+export function useFindingThumbnails(slug: MaybeRefOrGetter<string | null | undefined>, findingIds: MaybeRefOrGetter<string[]>) {
   const ids = computed(() => toValue(findingIds).join(','))
   const { data } = useFetch<Record<string, Attachment[]>>(() => `/api/orgs/${toValue(slug)}/findings/attachments`, {
     query: computed(() => ({ ids: ids.value })),

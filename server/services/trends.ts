@@ -63,6 +63,7 @@ export async function assetTrends(ctx: MemberContext, assetId: string, q: z.outp
     const readings = g.readings.map(({ criteriaId: _c, at: _a, ...r }) => r)
     components.push({ component: g.component, phase: g.phase, criteriaId: criteria.id, criteriaName: criteria.name, ...buildTrend(readings, criteria) })
   }
-  components.sort((a, b) => b.points.length - a.points.length || a.component.localeCompare(b.component) || a.phase.localeCompare(b.phase))
+  // Ordered on the normalised key: the spelling shown is the first one met, which must not decide the order.
+  components.sort((a, b) => b.points.length - a.points.length || keyOf(a.component, a.phase).localeCompare(keyOf(b.component, b.phase)))
   return { assetId: asset.id, assetLabel: asset.label, components }
 }

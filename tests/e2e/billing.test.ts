@@ -301,7 +301,9 @@ describe('lapses', () => {
     const billingWrites = ORG_ROUTES.filter((r) => r.file.startsWith('orgs/[org]/billing/') && r.method !== 'GET')
     expect(billingWrites.map((r) => r.file).filter(optedOut)).toHaveLength(4)
     for (const route of ORG_ROUTES.filter((r) => r.method !== 'GET' && can('owner', r.permission) && !optedOut(r.file))) {
-      const res = await client.request(route.method, route.path.replace(':org', slug).replace(':id', someId), route.body ?? {})
+      // Attachment routes take a compound id (<subject id>/attachments/<attachment id>); any id will do here.
+      const id = route.idKind === 'findingAttachment' || route.idKind === 'workOrderAttachment' ? `${someId}/attachments/${someId}` : someId
+      const res = await client.request(route.method, route.path.replace(':org', slug).replace(':id', id), route.body ?? {})
       expect(res.status, `${route.method} ${route.path} → ${JSON.stringify(res.body)}`).toBe(402)
       expect(res.body.data.message).toMatch(refusedMessage)
     }

@@ -69,7 +69,7 @@ describe('uploading an image to a finding', () => {
     // Nothing is listed while pending.
     expect((await thermo().get(base())).body).toEqual([])
 
-    const put = await fetch(begin.body.uploadUrl, { method: 'PUT', headers: begin.body.headers, body: png })
+    const put = await fetch(begin.body.uploadUrl, { method: 'PUT', headers: begin.body.headers, body: new Uint8Array(png) })
     expect(put.status).toBe(200)
     const done = await thermo().post(`${base()}/${attachmentId}/complete`)
     expect(done.status, JSON.stringify(done.body)).toBe(200)
@@ -145,7 +145,7 @@ describe('uploading an image to a finding', () => {
     expect(early.status).toBe(409)
     expect(early.body.data.message).toMatch(/has not arrived in storage/)
     expect((await rowOf(begin.body.attachment.id)).state).toBe('pending')
-    await fetch(begin.body.uploadUrl, { method: 'PUT', headers: begin.body.headers, body: bytes })
+    await fetch(begin.body.uploadUrl, { method: 'PUT', headers: begin.body.headers, body: new Uint8Array(bytes) })
     const late = await thermo().post(`${base()}/${begin.body.attachment.id}/complete`)
     expect(late.status).toBe(200)
     expect(late.body.state).toBe('stored')
@@ -270,7 +270,7 @@ describe('who may upload and read', () => {
   it('lets only the person who began an upload complete it', async () => {
     const png = await pngBytes()
     const begin = await thermo().post(base(), { kind: 'infrared', fileName: 'x.png', contentType: 'image/png', sizeBytes: png.length })
-    await fetch(begin.body.uploadUrl, { method: 'PUT', headers: begin.body.headers, body: png })
+    await fetch(begin.body.uploadUrl, { method: 'PUT', headers: begin.body.headers, body: new Uint8Array(png) })
     const other = await people.other!.client.post(`${base()}/${begin.body.attachment.id}/complete`)
     expect(other.status).toBe(403)
     const crew = await people.crew!.client.post(`${base()}/${begin.body.attachment.id}/complete`)

@@ -281,7 +281,7 @@ describe('working a work order', () => {
       expect(f.closedAt).toBeTruthy()
       expect(f.closedReason).toMatch(/Verified repaired/)
     }
-    const row = await testDb().selectFrom('findings').select(['closed_at', 'closed_reason']).where('id', '=', findings.band2).executeTakeFirstOrThrow()
+    const row = await testDb().selectFrom('findings').select(['closed_at', 'closed_reason']).where('id', '=', findings.band2!).executeTakeFirstOrThrow()
     expect(row.closed_at).not.toBeNull()
     // Closed findings are no longer offered for raising.
     const candidates = await owner.get(api('/work-orders/candidates'))

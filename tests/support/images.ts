@@ -31,7 +31,7 @@ export async function uploadImage(
     sizeBytes: opts.sizeBytes ?? bytes.length,
   })
   if (begin.status !== 201) return { begin }
-  const put = await fetch(begin.body.uploadUrl, { method: 'PUT', headers: begin.body.headers, body: bytes })
+  const put = await fetch(begin.body.uploadUrl, { method: 'PUT', headers: begin.body.headers, body: new Uint8Array(bytes) })
   const complete = await client.post(`${base}/${begin.body.attachment.id}/complete`)
   return { begin, put, complete }
 }

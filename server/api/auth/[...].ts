@@ -50,7 +50,7 @@ export default NuxtAuthHandler({
     },
     session({ session, token }) {
       ;(session.user as Record<string, unknown>).id = token.sub
-      ;(session as Record<string, unknown>).authAt = token.authAt
+      ;(session as unknown as Record<string, unknown>).authAt = token.authAt
       return session
     },
   },
