@@ -142,7 +142,7 @@ export async function invoicePage(ctx: MemberContext, page: number, pageSize: nu
   const [rows, count] = await Promise.all([
     db.selectFrom('billing_invoices').selectAll()
       .where('organisation_id', '=', ctx.org.id)
-      .orderBy('issued_at', 'desc').orderBy('id', 'desc')
+      .orderBy('issued_at', 'desc').orderBy(sql`number desc nulls last`).orderBy('id', 'desc')
       .limit(pageSize).offset((page - 1) * pageSize)
       .execute(),
     db.selectFrom('billing_invoices').select((eb) => eb.fn.countAll<number>().as('n'))

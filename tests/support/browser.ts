@@ -22,8 +22,43 @@ export async function newSession(browser: Browser, opts: { phone?: boolean } = {
     hasTouch: !!opts.phone,
   })
   context.setDefaultTimeout(15_000)
+  // Every full page load of the app waits for hydration (plugins/hydrated.client.ts), for every page of the context.
+  context.on('page', waitForHydrationOnLoad)
   const page = await context.newPage()
+  waitForHydrationOnLoad(page)
   return { context, page }
+}
+
+const hydrationWrapped = new WeakSet<Page>()
+
+/** Makes page.goto, page.reload and page.waitForURL return only once the app has hydrated (other origins are left alone). */
+function waitForHydrationOnLoad(page: Page): void {
+  if (hydrationWrapped.has(page)) return
+  hydrationWrapped.add(page)
+  const goto = page.goto.bind(page)
+  const reload = page.reload.bind(page)
+  page.goto = (async (...args: Parameters<Page['goto']>) => {
+    const res = await goto(...args)
+    await waitForHydration(page)
+    return res
+  }) as Page['goto']
+  page.reload = (async (...args: Parameters<Page['reload']>) => {
+    const res = await reload(...args)
+    await waitForHydration(page)
+    return res
+  }) as Page['reload']
+  // A redirect after signing in is a full load too: waiting for its URL also waits for the app to take over.
+  const waitForURL = page.waitForURL.bind(page)
+  page.waitForURL = (async (...args: Parameters<Page['waitForURL']>) => {
+    await waitForURL(...args)
+    await waitForHydration(page)
+  }) as Page['waitForURL']
+}
+
+/** Waits until the app has hydrated the current page, when the page is the app's. */
+export async function waitForHydration(page: Page): Promise<void> {
+  if (new URL(page.url()).origin !== new URL(inject('baseUrl')).origin) return
+  await page.waitForSelector('html[data-hydrated]', { state: 'attached', timeout: 30_000 })
 }
 
 /** Runs axe-core on the page and fails on any serious or critical violation, listing them. */
@@ -42,12 +77,13 @@ export async function expectAccessible(page: Page, label: string): Promise<void>
 }
 
 /**
- * Signs in through the sign-in form. The page is loaded until the network is idle first: a click before Vue has
- * hydrated the form would submit it natively and never reach the app's sign-in. By default it then waits to land
- * in an organisation; `{ landing: false }` returns right after the click (for refusals).
+ * Signs in through the sign-in form (page.goto waits for hydration: a click before Vue has taken over the form would
+ * submit it natively and never reach the app's sign-in). By default it then waits to land in an organisation;
+ * `{ landing: false }` returns right after the click (for refusals).
  */
 export async function signInWithForm(page: Page, email: string, password: string, opts: { landing?: boolean } = {}): Promise<void> {
-  await page.goto('/sign-in', { waitUntil: 'networkidle' })
+  await page.goto('/sign-in')
+  await waitForHydration(page)
   await page.getByLabel('E-mail').fill(email)
   await page.getByLabel('Password', { exact: true }).fill(password)
   await page.getByRole('button', { name: 'Sign in' }).click()
