@@ -64,9 +64,12 @@ describe('the programme dashboard', () => {
     await expect.poll(() => figure(page, 'coverage').textContent(), { timeout: 15_000 }).toBe('25 %')
     expect(await figure(page, 'open-findings').textContent()).toBe('3')
     // A shorter period: October 2025, every site → 1 of 5 due on time.
+    // One change at a time, as a person makes them: each filter lands in the URL before the next is set.
     await page.getByRole('button', { name: 'All sites' }).click()
+    await page.waitForURL((url) => !url.searchParams.has('site'))
     await page.locator('#dashboard-from').fill('2025-10-01')
     await page.locator('#dashboard-from').dispatchEvent('change')
+    await page.waitForURL(/from=2025-10-01/)
     await page.locator('#dashboard-to').fill('2025-10-31')
     await page.locator('#dashboard-to').dispatchEvent('change')
     await expect.poll(() => figure(page, 'coverage').textContent(), { timeout: 15_000 }).toBe('20 %')
