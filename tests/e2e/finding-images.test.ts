@@ -1,6 +1,6 @@
 import sharp from 'sharp'
 import { beforeAll, describe, expect, it } from 'vitest'
-import { ApiClient, linkIn, mailFor, signUpOwner } from '../support/api'
+import { ApiClient, signUpOwner, joinByInvitation } from '../support/api'
 import { resetDatabase, testDb } from '../support/db'
 import { jpegBytes, objectExists, pngBytes, uploadImage } from '../support/images'
 
@@ -16,13 +16,7 @@ const people: Record<string, { client: ApiClient; id: string }> = {}
 const MB = 1024 * 1024
 
 async function join(key: string, role: string, email: string) {
-  await owner.post(`/api/orgs/${slug}/invitations`, { email, role })
-  const [mail] = await mailFor(email)
-  const token = linkIn(mail!.text, '/invitations/').split('/invitations/')[1]!
-  const c = new ApiClient()
-  const res = await c.post('/api/account/sign-up', { name: `Images ${key}`, email, password: 'images password', invitationToken: token })
-  await c.signIn(email, 'images password')
-  people[key] = { client: c, id: res.body.user.id }
+  people[key] = await joinByInvitation(owner, slug, email, role, `Images ${key}`, 'images password')
 }
 
 const base = () => `/api/orgs/${slug}/findings/${findingId}/attachments`

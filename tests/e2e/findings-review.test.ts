@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto'
 import { beforeAll, describe, expect, it } from 'vitest'
-import { ApiClient, linkIn, mailFor, signUpOwner } from '../support/api'
+import { ApiClient, signUpOwner, joinByInvitation } from '../support/api'
 import { resetDatabase, testDb } from '../support/db'
 import { NETA_100_18, rankRise } from '../../shared/thermal/index'
 
@@ -14,13 +14,7 @@ const assets: Record<string, string> = {}
 const people: Record<string, { client: ApiClient; id: string }> = {}
 
 async function join(key: string, role: string, email: string) {
-  await owner.post(`/api/orgs/${slug}/invitations`, { email, role })
-  const [mail] = await mailFor(email)
-  const token = linkIn(mail!.text, '/invitations/').split('/invitations/')[1]!
-  const c = new ApiClient()
-  const res = await c.post('/api/account/sign-up', { name: `Field ${key}`, email, password: 'field password', invitationToken: token })
-  await c.signIn(email, 'field password')
-  people[key] = { client: c, id: res.body.user.id }
+  people[key] = await joinByInvitation(owner, slug, email, role, `Field ${key}`, 'field password')
 }
 
 const thermo = () => people.thermo!.client

@@ -3,7 +3,7 @@ import { createServer } from 'node:net'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { inject } from 'vitest'
 import { sql } from 'kysely'
-import { ApiClient, linkIn, signUpOwner } from '../support/api'
+import { ApiClient, linkIn, signUpOwner, joinByInvitation } from '../support/api'
 import { resetDatabase, testDb } from '../support/db'
 import { OUTPUT_DIR, ROOT, testEnv } from '../support/env'
 import { orgIdOf } from '../support/programme-fixtures'
@@ -35,13 +35,7 @@ const subjects = (mails: Caught[]) => mails.map((m) => m.subject).sort()
 
 async function join(key: string, role: string) {
   const email = `${key}@notices.test`
-  await owner.post(`/api/orgs/${slug}/invitations`, { email, role })
-  const [mail] = await mailFor(email)
-  const token = linkIn(mail!.text, '/invitations/').split('/invitations/')[1]!
-  const c = new ApiClient()
-  const res = await c.post('/api/account/sign-up', { name: `Notice ${key}`, email, password: 'notice password', invitationToken: token })
-  await c.signIn(email, 'notice password')
-  people[key] = { client: c, id: res.body.user.id, email }
+  people[key] = { ...await joinByInvitation(owner, slug, email, role, `Notice ${key}`, 'notice password'), email }
 }
 
 beforeAll(async () => {

@@ -1,6 +1,6 @@
 import { PDFParse } from 'pdf-parse'
 import { beforeAll, describe, expect, it } from 'vitest'
-import { ApiClient, linkIn, mailFor, signUpOwner } from '../support/api'
+import { ApiClient, signUpOwner, joinByInvitation } from '../support/api'
 import { resetDatabase, testDb } from '../support/db'
 import { jpegBytes, uploadImage } from '../support/images'
 import { reviewedSurvey, waitForReport } from '../support/reports'
@@ -21,13 +21,7 @@ const findings: Array<{ id: string; asset: string; component: string; phase: str
 
 async function join(key: string, role: string) {
   const email = `${key}@reports.test`
-  await owner.post(`/api/orgs/${slug}/invitations`, { email, role })
-  const [mail] = await mailFor(email)
-  const token = linkIn(mail!.text, '/invitations/').split('/invitations/')[1]!
-  const c = new ApiClient()
-  const res = await c.post('/api/account/sign-up', { name: `Report ${key}`, email, password: 'report password', invitationToken: token })
-  await c.signIn(email, 'report password')
-  people[key] = { client: c, id: res.body.user.id }
+  people[key] = await joinByInvitation(owner, slug, email, role, `Report ${key}`, 'report password')
 }
 
 async function pdfText(pdf: Uint8Array): Promise<string> {

@@ -1,5 +1,5 @@
 import { beforeAll, describe, expect, it } from 'vitest'
-import { ApiClient, linkIn, mailFor, signUpOwner } from '../support/api'
+import { ApiClient, signUpOwner, joinByInvitation } from '../support/api'
 import { resetDatabase } from '../support/db'
 import { GRID_LIMITS, gridFromBytes } from '../../shared/thermal/grid'
 
@@ -11,13 +11,7 @@ let otherSurveyAssetId: string
 const people: Record<string, { client: ApiClient; id: string }> = {}
 
 async function join(key: string, role: string, email: string) {
-  await owner.post(`/api/orgs/${slug}/invitations`, { email, role })
-  const [mail] = await mailFor(email)
-  const token = linkIn(mail!.text, '/invitations/').split('/invitations/')[1]!
-  const c = new ApiClient()
-  const res = await c.post('/api/account/sign-up', { name: `Grid ${key}`, email, password: 'grid password', invitationToken: token })
-  await c.signIn(email, 'grid password')
-  people[key] = { client: c, id: res.body.user.id }
+  people[key] = await joinByInvitation(owner, slug, email, role, `Grid ${key}`, 'grid password')
 }
 
 /** The raw bytes of a GET (the API client reads text). */

@@ -1,5 +1,5 @@
 import { beforeAll, describe, expect, it } from 'vitest'
-import { ApiClient, linkIn, mailFor, signUpOwner } from '../support/api'
+import { ApiClient, signUpOwner, joinByInvitation } from '../support/api'
 import { resetDatabase, testDb } from '../support/db'
 import { addDays, todayIn } from '../../shared/schedule'
 
@@ -17,13 +17,7 @@ const findings: Record<string, string> = {}
 const people: Record<string, { client: ApiClient; id: string }> = {}
 
 async function join(key: string, role: string, email: string) {
-  await owner.post(`/api/orgs/${slug}/invitations`, { email, role })
-  const [mail] = await mailFor(email)
-  const token = linkIn(mail!.text, '/invitations/').split('/invitations/')[1]!
-  const c = new ApiClient()
-  const res = await c.post('/api/account/sign-up', { name: `WO ${key}`, email, password: 'repair password', invitationToken: token })
-  await c.signIn(email, 'repair password')
-  people[key] = { client: c, id: res.body.user.id }
+  people[key] = await joinByInvitation(owner, slug, email, role, `WO ${key}`, 'repair password')
 }
 
 // ε = 1 and no transmittance: the object temperature equals the apparent one, so the rise over ambient is simply

@@ -80,3 +80,15 @@ export async function signUpOwner(name: string, email: string, organisationName:
   if (!client.hasSession()) throw new Error(`sign-in failed: ${signIn.status} ${JSON.stringify(signIn.body)}`)
   return { client, slug: res.body.organisation.slug as string, userId: res.body.user.id as string, password }
 }
+
+/** Invites `email` with `role` into the owner's organisation; the invitee signs up from the e-mailed link and signs in. */
+export async function joinByInvitation(owner: ApiClient, slug: string, email: string, role: string, name: string, password: string) {
+  await owner.post(`/api/orgs/${slug}/invitations`, { email, role })
+  const [mail] = await mailFor(email)
+  const token = linkIn(mail!.text, '/invitations/').split('/invitations/')[1]!
+  const client = new ApiClient()
+  const res = await client.post('/api/account/sign-up', { name, email, password, invitationToken: token })
+  if (res.status !== 201) throw new Error(`sign-up from invitation failed: ${res.status} ${JSON.stringify(res.body)}`)
+  await client.signIn(email, password)
+  return { client, id: res.body.user.id as string }
+}
