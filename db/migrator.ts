@@ -6,9 +6,14 @@ import pg from 'pg'
 
 const migrationFolder = path.join(path.dirname(fileURLToPath(import.meta.url)), 'migrations')
 
-/** Opens a Kysely instance on a connection string (scripts and tests; the app uses server/utils/db.ts). */
+/**
+ * Opens a Kysely instance on a connection string (scripts and tests; the app uses server/utils/db.ts). These are
+ * system connections: `greybody.org = '*'` lets them past the tenant wall (db/tenant-wall.ts) on every table.
+ * An idle connection dropped by a database restart is simply removed from the pool (without a listener the pool's
+ * 'error' event would end the process).
+ */
 export function connect<T = any>(connectionString: string, max = 5): Kysely<T> {
-  return new Kysely<T>({ dialect: new PostgresDialect({ pool: new pg.Pool({ connectionString, max }) }) })
+  return new Kysely<T>({ dialect: new PostgresDialect({ pool: new pg.Pool({ connectionString, max, options: '-c greybody.org=*' }).on('error', () => undefined) }) })
 }
 
 /** Applies every pending migration under db/migrations; throws on the first failure. */

@@ -117,7 +117,8 @@ let lastError = ''
 export function kickReportWorker(): void {
   if (busy) return
   busy = true
-  void (async () => {
+  // A request may kick the worker, but the queue spans organisations: it works past the tenant wall, not as the request.
+  void runAsSystem(async () => {
     try {
       for (;;) {
         const job = await claimNextReport()
@@ -132,7 +133,7 @@ export function kickReportWorker(): void {
     } finally {
       busy = false
     }
-  })()
+  })
 }
 
 /**

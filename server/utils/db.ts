@@ -1,11 +1,45 @@
+import { AsyncLocalStorage } from 'node:async_hooks'
+import type { H3Event } from 'h3'
 import { Kysely, PostgresDialect } from 'kysely'
 import pg from 'pg'
 import type { Database } from '~~/db/database'
+import { SYSTEM_SETTING, tenantReserveHook } from '~~/db/tenant-connection'
 
 // numeric columns come back as strings by default; bigint counts as numbers are safe for our sizes.
 pg.types.setTypeParser(20, (v) => Number(v))
 
 let instance: Kysely<Database> | undefined
+
+// Work started from a request that must not run as that request's organisation (the report worker, kicked by a
+// request but working through every organisation's queue).
+const systemScope = new AsyncLocalStorage<true>()
+
+/**
+ * What the tenant wall (db/tenant-wall.ts) lets the next connection checkout see: the organisation requireMember
+ * resolved for this request, or '*' outside any organisation's request (sign-in, account and invitation routes,
+ * webhooks, workers, the scheduler, and a request's own membership lookup before the organisation is known).
+ */
+function currentTenantSetting(): string {
+  if (systemScope.getStore()) return SYSTEM_SETTING
+  let event: H3Event | undefined
+  try {
+    event = useEvent()
+  } catch {
+    return SYSTEM_SETTING // not inside a request
+  }
+  const org = event.context.tenantOrgId
+  return typeof org === 'string' && org ? org : SYSTEM_SETTING
+}
+
+/** Called by requireMember once the organisation is resolved: from then on this request's queries see only its rows. */
+export function setRequestTenant(event: H3Event, organisationId: string): void {
+  event.context.tenantOrgId = organisationId
+}
+
+/** Runs background work outside the request that started it, past the tenant wall (it spans organisations). */
+export function runAsSystem<T>(work: () => T): T {
+  return systemScope.run(true, work)
+}
 
 /** The one Kysely instance of this server process, configured from NUXT_DATABASE_URL. */
 export function useDb(): Kysely<Database> {
@@ -13,7 +47,12 @@ export function useDb(): Kysely<Database> {
     const connectionString = useRuntimeConfig().databaseUrl || process.env.NUXT_DATABASE_URL
     if (!connectionString) throw new Error('NUXT_DATABASE_URL is not set')
     instance = new Kysely<Database>({
-      dialect: new PostgresDialect({ pool: new pg.Pool({ connectionString, max: Number(process.env.DB_POOL_MAX || 10) }) }),
+      dialect: new PostgresDialect({
+        // The listener keeps an idle connection that PostgreSQL dropped (restart, failover) from ending the process.
+        pool: new pg.Pool({ connectionString, max: Number(process.env.DB_POOL_MAX || 10) }).on('error', logDroppedConnection),
+        // Each checkout (one query, or one whole transaction) carries the organisation of the request it serves.
+        onReserveConnection: tenantReserveHook(currentTenantSetting),
+      }),
     })
   }
   return instance

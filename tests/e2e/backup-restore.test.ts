@@ -79,6 +79,19 @@ describe('backup and restore', () => {
     }
   })
 
+  it('keeps the tenant wall (db/tenant-wall.ts) on every tenant table of the restored copy', async () => {
+    const walls = (db: Kysely<any>) => sql<{ relname: string; walled: boolean; policies: string }>`
+      select c.relname, c.relrowsecurity and c.relforcerowsecurity as walled,
+        (select string_agg(p.polname::text || ':' || pg_get_expr(p.polqual, p.polrelid), ',') from pg_policy p where p.polrelid = c.oid) as policies
+      from pg_class c join pg_namespace n on n.oid = c.relnamespace
+      where n.nspname = 'public' and c.relkind = 'r' and exists (select 1 from pg_attribute a where a.attrelid = c.oid and a.attname = 'organisation_id')
+      order by 1`.execute(db).then((r) => r.rows)
+    const [source, copy] = await Promise.all([walls(testDb()), walls(restored!)])
+    expect(source.length).toBeGreaterThan(30)
+    expect(copy).toEqual(source)
+    expect(copy.every((t) => t.walled)).toBe(true)
+  })
+
   it('holds object keys that all still name stored objects', async () => {
     const keys = await restored!.selectFrom('attachments').select(['object_key', 'thumbnail_key']).where('state', '=', 'stored').execute()
     expect(keys.length).toBeGreaterThan(0)
