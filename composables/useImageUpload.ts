@@ -84,7 +84,10 @@ export function useImageUpload(base: MaybeRefOrGetter<string>, onStored: (a: Att
         return
       }
       const e = apiErrorOf(err)
-      if (!e.statusCode || e.statusCode >= 500 || e.statusCode === 408) {
+      if (e.statusCode === 503) {
+        // The database or file storage is away for a moment: the server says which.
+        fail(item, `${e.message} The finding is saved; press Retry.`, true)
+      } else if (!e.statusCode || e.statusCode >= 500 || e.statusCode === 408) {
         fail(item, 'No answer from the server. The finding is saved; press Retry when the connection is back.', true)
       } else if (e.statusCode === 409 && /not arrived/.test(e.message)) {
         item.sent = false

@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto'
 import type { H3Event } from 'h3'
-import { sql } from 'kysely'
+import { sql, type Kysely } from 'kysely'
+import type { Database } from '~~/db/database'
 
 /** Header a client sends with a write it may have to send again (offline queue, flaky network). */
 export const IDEMPOTENCY_HEADER = 'idempotency-key'
@@ -72,11 +73,56 @@ export async function withIdempotency<T>(event: H3Event, ctx: MemberContext, wri
     result = await write()
   } catch (err) {
     // Nothing was written (the service's transaction rolled back): free the key so the fixed request can use it.
-    await db.deleteFrom('idempotency_keys').where('organisation_id', '=', ctx.org.id).where('id', '=', claimId).execute()
+    await settle(() => db.deleteFrom('idempotency_keys').where('organisation_id', '=', ctx.org.id).where('id', '=', claimId).execute())
     throw err
   }
-  await db.updateTable('idempotency_keys')
-    .set({ status_code: getResponseStatus(event) || 200, response: JSON.stringify(result ?? null) })
-    .where('organisation_id', '=', ctx.org.id).where('id', '=', claimId).execute()
+  // The write is committed: its answer is the request's answer even if the database went away just now; the stored
+  // copy then follows as soon as it is back, so a retry with this key gets it (409 "Still being saved" until then).
+  const status = getResponseStatus(event) || 200
+  await settle(() => db.updateTable('idempotency_keys')
+    .set({ status_code: status, response: JSON.stringify(result ?? null) })
+    .where('organisation_id', '=', ctx.org.id).where('id', '=', claimId).execute())
   return result
+}
+
+/**
+ * Runs a bookkeeping write on a key now, or, when the database is out of reach (a restart mid-request), again in the
+ * background until it lands, for as long as the claim would otherwise block its key. Other errors are thrown.
+ */
+async function settle(bookkeeping: () => Promise<unknown>): Promise<void> {
+  try {
+    await bookkeeping()
+    return
+  } catch (err) {
+    if (!unavailableService(err)) throw err
+  }
+  void (async () => {
+    const until = Date.now() + STALE_CLAIM_SECONDS * 1000
+    for (let wait = 200; Date.now() < until; wait = Math.min(wait * 2, 5000)) {
+      await new Promise((r) => setTimeout(r, wait))
+      try {
+        await bookkeeping()
+        console.warn('[idempotency] a key was settled once the database was back')
+        return
+      } catch (err) {
+        if (!unavailableService(err)) break
+      }
+    }
+    console.error('[idempotency] a key could not be settled; its claim is taken over after', STALE_CLAIM_SECONDS, 's')
+  })()
+}
+
+/** How long a stored answer is kept: longer than any phone is expected to stay offline with a queued save. */
+export const IDEMPOTENCY_KEEP_DAYS = 30
+
+/**
+ * Forgets answered keys older than IDEMPOTENCY_KEEP_DAYS (run by the scheduler's tick, across organisations).
+ * Claims still waiting for their answer are left alone: the stale-claim takeover above deals with them.
+ */
+export async function pruneIdempotencyKeys(db: Kysely<Database>, now: Date = new Date()): Promise<number> {
+  const r = await db.deleteFrom('idempotency_keys')
+    .where('status_code', 'is not', null)
+    .where('created_at', '<', sql<Date>`${now.toISOString()}::timestamptz - make_interval(days => ${IDEMPOTENCY_KEEP_DAYS})`)
+    .executeTakeFirst()
+  return Number(r.numDeletedRows)
 }
