@@ -25,6 +25,7 @@ export default defineNitroPlugin((nitroApp) => {
         const db = useDb()
         const result = await runNoticeJobs(db, ctx.date)
         await pruneJobRuns(db)
+        await pruneIdempotencyKeys(db, ctx.date)
         log(`finished ${TICK_JOB} ${ctx.date.toISOString()}: ${result.ran.length} organisation(s), ${result.ran.reduce((n, r) => n + r.emailsQueued, 0)} e-mail(s) queued`)
         return result
       }, {

@@ -9,6 +9,8 @@ const schema = z.object({
   jobs: z.boolean().default(true),
   deliver: z.boolean().default(true),
   organisationIds: z.array(z.uuid()).max(100).optional(),
+  // The housekeeping the scheduler's tick also does (forgetting old Idempotency-Keys).
+  prune: z.boolean().default(false),
 })
 
 export default defineEventHandler(async (event) => {
@@ -20,5 +22,6 @@ export default defineEventHandler(async (event) => {
   const now = body.now ? new Date(body.now) : new Date()
   const jobs = body.jobs ? await runNoticeJobs(db, now, { organisationIds: body.organisationIds }) : null
   const delivered = body.deliver ? await drainOutbox(db) : null
-  return { jobs, delivered }
+  const pruned = body.prune ? { idempotencyKeys: await pruneIdempotencyKeys(db, now) } : null
+  return { jobs, delivered, pruned }
 })
