@@ -3,7 +3,7 @@
 set -euo pipefail
 cd "$(dirname "$0")/.."
 started=$(date +%s)
-bash scripts/ensure-system.sh --with-browser
+bash scripts/ensure-system.sh --with-browser --with-nginx
 bash scripts/ensure-node-modules.sh
 # GREYBODY_TEST_PROFILE=test-N runs beside another test run (own services, ports and build folder).
 profile="${GREYBODY_TEST_PROFILE:-test}"

@@ -1,11 +1,10 @@
-import { spawn, type ChildProcess } from 'node:child_process'
-import { createServer } from 'node:net'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { inject } from 'vitest'
 import { sql } from 'kysely'
 import { ApiClient, linkIn, signUpOwner, joinByInvitation } from '../support/api'
 import { resetDatabase, testDb } from '../support/db'
-import { OUTPUT_DIR, ROOT, testEnv } from '../support/env'
+import { type AppProcess, freePort, startAppProcess, stopAppProcess } from '../support/app-process'
+import { tickSlots, waitFor } from '../support/cluster'
 import { orgIdOf } from '../support/programme-fixtures'
 import { startMailCatcher } from '../../scripts/fakes/mail-catcher.mjs'
 
@@ -229,64 +228,15 @@ describe('the outbox for managers', () => {
 
 // ---- Reliability: separate app processes of the built server against the same database ----
 
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const s = createServer()
-    s.once('error', reject)
-    s.listen(0, '127.0.0.1', () => {
-      const port = (s.address() as { port: number }).port
-      s.close(() => resolve(port))
-    })
-  })
-}
+const apps: AppProcess[] = []
 
-interface App { child: ChildProcess; port: number; log: string[] }
-const apps: App[] = []
-
-async function startApp(extra: Record<string, string>): Promise<App> {
-  const port = await freePort()
-  const env = { ...process.env, ...testEnv(), NODE_ENV: 'production', PORT: String(port), NITRO_PORT: String(port), NITRO_HOST: '127.0.0.1', AUTH_ORIGIN: `http://127.0.0.1:${port}/api/auth`, NUXT_TEST_HOOKS: '0', ...extra } as NodeJS.ProcessEnv
-  const child = spawn('node', [`${OUTPUT_DIR}/server/index.mjs`], { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'pipe'] })
-  const app: App = { child, port, log: [] }
-  // Whole lines only: a chunk may end in the middle of one.
-  const reader = () => {
-    let rest = ''
-    return (b: Buffer) => {
-      const lines = (rest + b.toString()).split('\n')
-      rest = lines.pop() ?? ''
-      app.log.push(...lines.filter(Boolean))
-    }
-  }
-  child.stdout!.on('data', reader())
-  child.stderr!.on('data', reader())
+/** A process of the built server with its own notice settings (the shared one keeps clock-driven jobs off). */
+async function startApp(extra: Record<string, string>): Promise<AppProcess> {
+  const app = await startAppProcess({ NUXT_TEST_HOOKS: '0', ...extra })
   apps.push(app)
-  // Generous: on a busy two-core machine a cold start of the built server can take a while.
-  const until = Date.now() + 90_000
-  while (Date.now() < until) {
-    if (child.exitCode !== null) throw new Error(`app exited: ${app.log.join('\n')}`)
-    if (await fetch(`http://127.0.0.1:${port}/api/health`).then((r) => r.ok, () => false)) return app
-    await new Promise((r) => setTimeout(r, 200))
-  }
-  throw new Error(`app on ${port} did not start: ${app.log.join('\n')}`)
+  return app
 }
-
-async function stopApp(app: App) {
-  if (app.child.exitCode !== null) return
-  const exited = new Promise((r) => app.child.once('exit', r))
-  app.child.kill('SIGTERM')
-  await Promise.race([exited, new Promise((r) => setTimeout(r, 5000))])
-  if (app.child.exitCode === null) app.child.kill('SIGKILL')
-}
-
-async function waitFor<T>(what: string, fn: () => Promise<T | undefined | null | false>, timeoutMs = 20_000): Promise<T> {
-  const until = Date.now() + timeoutMs
-  while (Date.now() < until) {
-    const v = await fn()
-    if (v) return v
-    await new Promise((r) => setTimeout(r, 150))
-  }
-  throw new Error(`timed out waiting for ${what}`)
-}
+const stopApp = stopAppProcess
 
 afterAll(async () => {
   for (const a of apps) await stopApp(a)
@@ -352,8 +302,6 @@ describe('when the mail server is down', () => {
 })
 
 describe('two app instances against one database', () => {
-  // The scheduled moment each instance logs when it claims or skips a tick.
-  const SLOT = '(\\d{4}-\\d\\d-\\d\\dT[\\d:.]+Z)'
   it('fires each scheduled run once, and sends each notice once', async () => {
     // A survey due within 14 days of the real clock, for the scheduler that runs on it.
     const today = new Intl.DateTimeFormat('en-CA', { timeZone: 'Pacific/Auckland' }).format(new Date())
@@ -370,18 +318,15 @@ describe('two app instances against one database', () => {
     try {
       // Let both instances see several ticks together.
       await waitFor('four ticks seen by both instances', async () => {
-        const seen = (app: App) => new Set(app.log.map((l) => new RegExp(`(?:claimed|skipped) notices-tick ${SLOT}`).exec(l)?.[1]).filter(Boolean))
+        const seen = (app: AppProcess) => { const t = tickSlots(app.log); return new Set([...t.claimed, ...t.skipped]) }
         const sa = seen(a!)
         return [...seen(b!)].filter((s) => sa.has(s)).length >= 4
       }, 45_000).catch((e) => { throw new Error(`${(e as Error).message}\nA:\n${a!.log.join('\n')}\nB:\n${b!.log.join('\n')}`) })
     } finally {
       await Promise.all([stopApp(a!), stopApp(b!)])
     }
-    const slotsIn = (app: App, word: string) => app.log.map((l) => new RegExp(`${word} notices-tick ${SLOT}`).exec(l)?.[1]).filter(Boolean) as string[]
-    const claimedA = slotsIn(a!, 'claimed')
-    const claimedB = slotsIn(b!, 'claimed')
-    const skippedA = slotsIn(a!, 'skipped')
-    const skippedB = slotsIn(b!, 'skipped')
+    const { claimed: claimedA, skipped: skippedA } = tickSlots(a!.log)
+    const { claimed: claimedB, skipped: skippedB } = tickSlots(b!.log)
     // Every tick both instances saw was run by exactly one of them.
     const seenByBoth = [...new Set([...claimedA, ...skippedA])].filter((s) => claimedB.includes(s) || skippedB.includes(s))
     expect(seenByBoth.length).toBeGreaterThanOrEqual(4)
