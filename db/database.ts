@@ -33,6 +33,7 @@ import type { VerificationsTable } from './tables/verifications'
 import type { RecordEventsTable } from './tables/record-events'
 import type { SurveyReportsTable } from './tables/survey-reports'
 import type { ApiTokensTable, ApiTokenRequestsTable, ApiTokenWindowsTable } from './tables/api-tokens'
+import type { AuditEventsTable, AccountEventsTable } from './tables/audit-events'
 
 /** The Kysely schema of Greybody's database: one interface per table, snake_case as stored. */
 export interface Database {
@@ -73,4 +74,6 @@ export interface Database {
   api_tokens: ApiTokensTable
   api_token_requests: ApiTokenRequestsTable
   api_token_windows: ApiTokenWindowsTable
+  audit_events: AuditEventsTable
+  account_events: AccountEventsTable
 }

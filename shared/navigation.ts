@@ -35,6 +35,7 @@ export const ORG_NAV: readonly NavItem[] = [
   { key: 'settings', label: 'Settings', path: 'settings', icon: 'settings', permission: 'organisation.manage' },
   { key: 'api-tokens', label: 'API tokens', path: 'api-tokens', icon: 'settings', permission: 'tokens.manage' },
   { key: 'billing', label: 'Billing', path: 'billing', icon: 'billing', permission: 'billing.manage' },
+  { key: 'audit', label: 'Audit log', path: 'audit', icon: 'settings', permission: 'audit.view' },
 ]
 
 /** The navigation entries a role may see in an organisation, with their full paths. */

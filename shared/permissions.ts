@@ -45,6 +45,9 @@ export const PERMISSIONS = {
   'notices.outbox': ['owner', 'manager'],
   // Organisation API tokens: created, listed and revoked by owners; a token itself never holds this (shared/api-tokens.ts).
   'tokens.manage': ['owner'],
+  // The audit log (sign-ins, role changes, billing, archives): owners only, since it shows every member's sign-in
+  // addresses and the organisation's payments.
+  'audit.view': ['owner'],
   // Survey reports (PDF): managers make them from reviewed surveys; the people who read results download them
   // (thermographers their work, viewers as engineering reviewers, insurers and auditors). Crews work from work orders.
   'reports.create': ['owner', 'manager'],

@@ -4,6 +4,7 @@ import type { signUpSchema } from '#shared/schemas/account'
 import { createOrganisation, organisationsOf } from './organisations'
 import { acceptInvitation } from './invitations'
 import { passwordResetEmail } from './emails'
+import { recordAccountEvent } from './audit'
 
 export const RESET_MINUTES = 60
 
@@ -67,6 +68,7 @@ export async function confirmPasswordReset(token: string, password: string): Pro
       .where('id', '=', reset.user_id).execute()
     await trx.updateTable('password_resets').set({ used_at: new Date() })
       .where('user_id', '=', reset.user_id).where('used_at', 'is', null).execute()
+    await recordAccountEvent(trx, { userId: reset.user_id, email: reset.email, action: 'account.password_reset' })
     return { email: reset.email }
   })
 }

@@ -3,6 +3,7 @@ import type { z } from 'zod'
 import type { ApiToken, ApiTokenCreated, ApiTokenRequest, apiTokenCreateSchema, apiTokenRequestsQuerySchema } from '#shared/api-tokens'
 import type { Page } from '#shared/types/programme'
 import { pageWindow } from './paging'
+import { record } from './audit'
 
 function tokenQuery(orgId: string) {
   return useDb().selectFrom('api_tokens as t')
@@ -29,9 +30,13 @@ export async function listApiTokens(ctx: MemberContext): Promise<ApiToken[]> {
 /** Creates a token; the answer carries the secret, which is never shown again (only its SHA-256 is kept). */
 export async function createApiToken(ctx: MemberContext, input: z.output<typeof apiTokenCreateSchema>): Promise<ApiTokenCreated> {
   const { secret, hash, hint } = newApiTokenSecret()
-  const { id } = await useDb().insertInto('api_tokens').values({
-    organisation_id: ctx.org.id, name: input.name, scope: input.scope, token_hash: hash, token_hint: hint, created_by: ctx.user.id,
-  }).returning('id').executeTakeFirstOrThrow()
+  const { id } = await useDb().transaction().execute(async (trx) => {
+    const created = await trx.insertInto('api_tokens').values({
+      organisation_id: ctx.org.id, name: input.name, scope: input.scope, token_hash: hash, token_hint: hint, created_by: ctx.user.id,
+    }).returning('id').executeTakeFirstOrThrow()
+    await record(trx, { ctx, action: 'token.created', target: { kind: 'api_token', id: created.id, label: input.name }, details: { scope: input.scope, hint } })
+    return created
+  })
   const row = await tokenQuery(ctx.org.id).where('t.id', '=', id).executeTakeFirstOrThrow()
   return { token: toToken(row), secret }
 }
@@ -41,8 +46,12 @@ export async function revokeApiToken(ctx: MemberContext, id: string): Promise<Ap
   const db = useDb()
   const found = await db.selectFrom('api_tokens').select('id').where('organisation_id', '=', ctx.org.id).where('id', '=', id).executeTakeFirst()
   if (!found) throw notFound('API token')
-  await db.updateTable('api_tokens').set({ revoked_at: new Date(), revoked_by: ctx.user.id })
-    .where('organisation_id', '=', ctx.org.id).where('id', '=', id).where('revoked_at', 'is', null).execute()
+  await db.transaction().execute(async (trx) => {
+    const revoked = await trx.updateTable('api_tokens').set({ revoked_at: new Date(), revoked_by: ctx.user.id })
+      .where('organisation_id', '=', ctx.org.id).where('id', '=', id).where('revoked_at', 'is', null).returning(['name', 'scope']).executeTakeFirst()
+    // Revoking twice changes nothing, so it is recorded once.
+    if (revoked) await record(trx, { ctx, action: 'token.revoked', target: { kind: 'api_token', id, label: revoked.name }, details: { scope: revoked.scope } })
+  })
   return toToken(await tokenQuery(ctx.org.id).where('t.id', '=', id).executeTakeFirstOrThrow())
 }
 

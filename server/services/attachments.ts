@@ -14,6 +14,7 @@ import {
 } from '#shared/schemas/attachment'
 import type { Attachment, AttachmentUploadTicket } from '#shared/types/attachment'
 import { assertStorageRoom } from './plan-limits'
+import { record } from './audit'
 
 // Generic attachments: images on a finding or a work order, sent by the browser straight to object storage through a
 // presigned PUT, then checked here by their real size and content before they count. The subject's own rules (who may
@@ -185,6 +186,12 @@ export async function completeAttachmentUpload(
   if (head.size !== declared) {
     return refuse(ctx, row, `The stored file is ${head.size} bytes but ${declared} bytes were declared. Choose the image again.`)
   }
+  // Storage serves an object under the type it was sent with; a store that does not hold the PUT to the signed type
+  // could otherwise serve these bytes as, say, text/html.
+  if (head.contentType !== row.content_type) {
+    const sent = (head.contentType ?? 'no type').slice(0, 100)
+    return refuse(ctx, row, `The file was sent as ${sent}, not as the declared ${ATTACHMENT_TYPE_LABELS[row.content_type]}. Choose the image again.`)
+  }
   const start = await getObjectBytes(row.object_key, `bytes=0-${SNIFF_BYTES - 1}`)
   const sniffed = start ? await fileTypeFromBuffer(start) : undefined
   const declaredLabel = ATTACHMENT_TYPE_LABELS[row.content_type]
@@ -274,7 +281,15 @@ export async function archiveAttachment(
   await opts.check()
   const row = await findRow(ctx, subject, attachmentId)
   if (row.state !== 'stored') throw notFound('Image')
-  await useDb().updateTable('attachments').set({ archived_at: new Date() })
-    .where('organisation_id', '=', ctx.org.id).where('id', '=', row.id).where('archived_at', 'is', null)
-    .execute()
+  await useDb().transaction().execute(async (trx) => {
+    const archived = await trx.updateTable('attachments').set({ archived_at: new Date() })
+      .where('organisation_id', '=', ctx.org.id).where('id', '=', row.id).where('archived_at', 'is', null)
+      .returning('id').executeTakeFirst()
+    if (archived) {
+      await record(trx, {
+        ctx, action: 'image.removed', target: { kind: 'attachment', id: row.id, label: row.file_name },
+        details: { subjectKind: subject.kind, subjectId: subject.id, kind: row.kind },
+      })
+    }
+  })
 }

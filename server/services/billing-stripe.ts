@@ -10,6 +10,7 @@ import {
 import { SUBSCRIPTION_STATUSES, addDays, type SubscriptionStatus } from '#shared/billing/standing'
 import type { BillingSummary } from '#shared/types/billing'
 import { billingSummary, hasLiveSubscription, lockBilling, seatUsageOf, touched } from './billing'
+import { PAYMENT_PROVIDER, actorOf, changesOf, record, type AuditActor } from './audit'
 
 const LAPSING: SubscriptionStatus[] = ['past_due', 'unpaid', 'incomplete']
 const ENDED: SubscriptionStatus[] = ['canceled', 'incomplete_expired']
@@ -62,7 +63,9 @@ function planOf(price: Stripe.Price, fallback: PlanKey): { plan: PlanKey; interv
  * fetched just now (never an event's copy), so events that arrive late or out of order cannot roll the state
  * back. An ended subscription that is no longer the organisation's current one is history and is ignored.
  */
-export async function applySubscription(trx: Transaction<Database>, organisationId: string, sub: Stripe.Subscription): Promise<boolean> {
+export async function applySubscription(
+  trx: Transaction<Database>, organisationId: string, sub: Stripe.Subscription, actor: AuditActor | null = PAYMENT_PROVIDER,
+): Promise<boolean> {
   const state = await lockBilling(trx, organisationId)
   const status = subscriptionStatus(sub.status)
   if (state.stripeSubscriptionId && state.stripeSubscriptionId !== sub.id && ENDED.includes(status)) return false
@@ -71,6 +74,19 @@ export async function applySubscription(trx: Transaction<Database>, organisation
   const { plan, interval } = planOf(item.price, state.plan)
   const now = new Date()
   const graceUntil = LAPSING.includes(status) ? state.graceUntil ?? addDays(now, GRACE_DAYS) : ENDED.includes(status) ? state.graceUntil : null
+  const cancelAtPeriodEnd = sub.cancel_at_period_end || (!!sub.cancel_at && !ENDED.includes(status))
+  // The audit log gets one entry per real change, whoever applies it first (the webhook or the page's own sync);
+  // a later copy of the same state finds nothing changed and records nothing.
+  const changes = changesOf(
+    { plan: state.plan, interval: state.interval, status: state.status, seats: state.seatsPaid, cancelAtPeriodEnd: state.cancelAtPeriodEnd },
+    { plan, interval, status, seats: item.quantity ?? 1, cancelAtPeriodEnd },
+  )
+  if (Object.keys(changes).length) {
+    await record(trx, {
+      organisationId, actor, action: 'billing.subscription_changed',
+      target: { kind: 'subscription', id: sub.id, label: PLANS[plan].name }, details: { changes },
+    })
+  }
   await trx.updateTable('organisation_billing')
     .set({
       plan,
@@ -78,7 +94,7 @@ export async function applySubscription(trx: Transaction<Database>, organisation
       status,
       seats_paid: item.quantity ?? 1,
       current_period_end: fromUnix(item.current_period_end),
-      cancel_at_period_end: sub.cancel_at_period_end || (!!sub.cancel_at && !ENDED.includes(status)),
+      cancel_at_period_end: cancelAtPeriodEnd,
       ended_at: fromUnix(sub.ended_at),
       grace_until: graceUntil,
       stripe_subscription_id: sub.id,
@@ -92,8 +108,19 @@ export async function applySubscription(trx: Transaction<Database>, organisation
 }
 
 /** Stores or refreshes one invoice in the organisation's invoice list. */
-export async function upsertInvoice(trx: Transaction<Database>, organisationId: string, inv: Stripe.Invoice): Promise<void> {
+export async function upsertInvoice(
+  trx: Transaction<Database>, organisationId: string, inv: Stripe.Invoice, actor: AuditActor | null = PAYMENT_PROVIDER,
+): Promise<void> {
   if (!inv.id) return
+  const before = await trx.selectFrom('billing_invoices').select('status')
+    .where('organisation_id', '=', organisationId).where('stripe_invoice_id', '=', inv.id).executeTakeFirst()
+  // Paid is recorded once: when the stored invoice first turns paid.
+  if (inv.status === 'paid' && before?.status !== 'paid') {
+    await record(trx, {
+      organisationId, actor, action: 'billing.invoice_paid', target: { kind: 'invoice', id: inv.id, label: inv.number ?? inv.id },
+      details: { amount: inv.amount_paid, currency: inv.currency, reason: inv.billing_reason },
+    })
+  }
   const values = {
     organisation_id: organisationId,
     stripe_invoice_id: inv.id,
@@ -200,6 +227,10 @@ export async function startCheckout(ctx: MemberContext, input: { plan: PaidPlanK
       cancel_url: `${appLink(back)}?checkout=cancelled`,
     })
     if (!session.url) throw new Error('Checkout session without a URL')
+    await record(useDb(), {
+      ctx, action: 'billing.checkout_started', target: { kind: 'subscription', id: null, label: PLANS[input.plan].name },
+      details: { plan: input.plan, interval: input.interval, seats: input.seats, session: session.id },
+    })
     return { url: session.url, sessionId: session.id }
   } catch (err) {
     throw stripeFailure(err, 'open the checkout')
@@ -224,8 +255,8 @@ export async function syncCheckout(ctx: MemberContext, sessionId: string): Promi
     const sub = await currentSubscription(subId)
     const invoices = await useStripe().invoices.list({ subscription: subId, limit: 10 }).catch(() => null)
     await useDb().transaction().execute(async (trx) => {
-      if (sub) await applySubscription(trx, ctx.org.id, sub)
-      for (const inv of invoices?.data ?? []) await upsertInvoice(trx, ctx.org.id, inv)
+      if (sub) await applySubscription(trx, ctx.org.id, sub, actorOf(ctx))
+      for (const inv of invoices?.data ?? []) await upsertInvoice(trx, ctx.org.id, inv, actorOf(ctx))
     })
   }
   const known = ['open', 'complete', 'expired'] as const
@@ -242,6 +273,7 @@ export async function openPortal(ctx: MemberContext) {
       customer: state.stripeCustomerId,
       return_url: appLink(`/orgs/${ctx.org.slug}/billing`),
     })
+    await record(useDb(), { ctx, action: 'billing.portal_opened', target: { kind: 'subscription', id: state.stripeSubscriptionId, label: PLANS[state.plan].name } })
     return { url: portal.url }
   } catch (err) {
     throw stripeFailure(err, 'open the billing portal')
@@ -286,15 +318,21 @@ export async function changeSeats(ctx: MemberContext, seats: number) {
   const invoiceId = idOf(updated.latest_invoice)
   const invoice = invoiceId && item.quantity !== seats ? await useStripe().invoices.retrieve(invoiceId).catch(() => null) : null
   await useDb().transaction().execute(async (trx) => {
-    await applySubscription(trx, ctx.org.id, updated)
-    if (invoice) await upsertInvoice(trx, ctx.org.id, invoice)
+    if (item.quantity !== seats) {
+      await record(trx, {
+        ctx, action: 'billing.seats_changed', target: { kind: 'subscription', id: sub.id, label: PLANS[state.plan].name },
+        details: { from: item.quantity, to: seats, ...(invoice && { invoice: invoice.id, invoiceTotal: invoice.total, currency: invoice.currency }) },
+      })
+    }
+    await applySubscription(trx, ctx.org.id, updated, actorOf(ctx))
+    if (invoice) await upsertInvoice(trx, ctx.org.id, invoice, actorOf(ctx))
   })
   return { summary: await billingSummary(ctx), prorationInvoice: invoice ? { id: invoice.id, total: invoice.total, currency: invoice.currency } : null }
 }
 
 /** Cancels at the end of the paid period: nothing stops before then, and no refund is made. */
 export async function cancelAtPeriodEnd(ctx: MemberContext): Promise<BillingSummary> {
-  const { sub } = await liveSubscriptionOf(ctx)
+  const { state, sub } = await liveSubscriptionOf(ctx)
   let updated = sub
   if (!sub.cancel_at_period_end) {
     try {
@@ -303,6 +341,11 @@ export async function cancelAtPeriodEnd(ctx: MemberContext): Promise<BillingSumm
       throw stripeFailure(err, 'cancel the subscription')
     }
   }
-  await useDb().transaction().execute((trx) => applySubscription(trx, ctx.org.id, updated))
+  await useDb().transaction().execute(async (trx) => {
+    if (!sub.cancel_at_period_end) {
+      await record(trx, { ctx, action: 'billing.cancel_requested', target: { kind: 'subscription', id: sub.id, label: PLANS[state.plan].name } })
+    }
+    await applySubscription(trx, ctx.org.id, updated, actorOf(ctx))
+  })
   return billingSummary(ctx)
 }

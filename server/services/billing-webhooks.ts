@@ -5,6 +5,7 @@
 // invoice.payment_failed; any other type is recorded as ignored.
 import type Stripe from 'stripe'
 import { applySubscription, currentSubscription, organisationFor, upsertInvoice } from './billing-stripe'
+import { PAYMENT_PROVIDER, record } from './audit'
 
 export type WebhookOutcome = 'applied' | 'ignored' | 'duplicate'
 
@@ -69,6 +70,14 @@ export async function handleStripeEvent(event: Stripe.Event): Promise<WebhookOut
       if (plan.invoice) {
         await upsertInvoice(trx, plan.organisationId, plan.invoice)
         applied = true
+        // Once per event: the event id below makes a replay roll this back with everything else.
+        if (event.type === 'invoice.payment_failed') {
+          await record(trx, {
+            organisationId: plan.organisationId, actor: PAYMENT_PROVIDER, action: 'billing.invoice_payment_failed',
+            target: { kind: 'invoice', id: plan.invoice.id ?? null, label: plan.invoice.number ?? plan.invoice.id ?? '' },
+            details: { amount: plan.invoice.amount_due, currency: plan.invoice.currency, attempt: plan.invoice.attempt_count },
+          })
+        }
       }
     }
     const outcome = applied ? 'applied' : 'ignored'

@@ -5,6 +5,7 @@ import { todayIn } from '#shared/schedule'
 import type { instrumentCreateSchema, instrumentListQuerySchema, instrumentUpdateSchema } from '#shared/schemas/instrument'
 import type { InstrumentItem, Page } from '#shared/types/programme'
 import { changedMeanwhile, isUniqueViolation, likePattern, num, pageWindow } from './paging'
+import { record } from './audit'
 
 const columns = [
   'i.id', 'i.make', 'i.model', 'i.serial', 'i.band_from_um', 'i.band_to_um', 'i.ifov_mrad', 'i.accuracy_k', 'i.accuracy_pct',
@@ -86,11 +87,22 @@ export async function createInstrument(ctx: MemberContext, input: z.output<typeo
   return getInstrument(ctx, row.id)
 }
 
-async function versioned(ctx: MemberContext, id: string, version: number, set: Record<string, unknown>): Promise<InstrumentItem> {
-  const row = await useDb().updateTable('instruments')
-    .set({ ...set, version: sql`version + 1`, updated_at: new Date() })
-    .where('organisation_id', '=', ctx.org.id).where('id', '=', id).where('version', '=', version)
-    .returning('id').executeTakeFirst().catch(duplicateSerial)
+async function versioned(
+  ctx: MemberContext, id: string, version: number, set: Record<string, unknown>, audit?: 'instrument.archived' | 'instrument.restored',
+): Promise<InstrumentItem> {
+  const row = await useDb().transaction().execute(async (trx) => {
+    const before = await trx.selectFrom('instruments').select(['archived_at', 'make', 'model', 'serial'])
+      .where('organisation_id', '=', ctx.org.id).where('id', '=', id).forUpdate().executeTakeFirst()
+    const updated = await trx.updateTable('instruments')
+      .set({ ...set, version: sql`version + 1`, updated_at: new Date() })
+      .where('organisation_id', '=', ctx.org.id).where('id', '=', id).where('version', '=', version)
+      .returning('id').executeTakeFirst()
+    // Recorded only when the archive state really changed.
+    if (updated && before && audit && (before.archived_at === null) === (audit === 'instrument.archived')) {
+      await record(trx, { ctx, action: audit, target: { kind: 'instrument', id, label: `${before.make} ${before.model} (${before.serial})` } })
+    }
+    return updated
+  }).catch(duplicateSerial)
   if (!row) {
     await getInstrument(ctx, id) // 404 when it is not this organisation's
     throw changedMeanwhile('instrument')
@@ -109,10 +121,10 @@ export function updateInstrument(ctx: MemberContext, id: string, input: z.output
 
 /** Archives (never deletes) an instrument: routes and records that name it keep it. */
 export function archiveInstrument(ctx: MemberContext, id: string, version: number): Promise<InstrumentItem> {
-  return versioned(ctx, id, version, { archived_at: sql`coalesce(archived_at, now())` })
+  return versioned(ctx, id, version, { archived_at: sql`coalesce(archived_at, now())` }, 'instrument.archived')
 }
 
 /** Brings an archived instrument back. */
 export function restoreInstrument(ctx: MemberContext, id: string, version: number): Promise<InstrumentItem> {
-  return versioned(ctx, id, version, { archived_at: null })
+  return versioned(ctx, id, version, { archived_at: null }, 'instrument.restored')
 }

@@ -5,6 +5,7 @@ import type { Role } from '#shared/permissions'
 import { ROLE_LABELS } from '#shared/permissions'
 import { invitationEmail } from './emails'
 import { assertSeatFor } from './billing'
+import { record } from './audit'
 
 export const INVITATION_DAYS = 7
 
@@ -60,7 +61,10 @@ export async function createInvitation(ctx: MemberContext, email: string, role: 
       .onConflict((oc) => oc.expression(sql`organisation_id, lower(email)`).where('status', '=', 'pending').doNothing())
       .returning(columns)
       .executeTakeFirst()
-    if (inserted) await assertSeatFor(trx, ctx.org, role, ctx.member.role, { adding: 0 })
+    if (inserted) {
+      await assertSeatFor(trx, ctx.org, role, ctx.member.role, { adding: 0 })
+      await record(trx, { ctx, action: 'member.invited', target: { kind: 'invitation', id: inserted.id, label: email }, details: { role } })
+    }
     return inserted
   })
   if (!row) fieldError('email', `${email} already has a pending invitation. Resend it from the list instead.`, 409)
@@ -72,14 +76,20 @@ export async function createInvitation(ctx: MemberContext, email: string, role: 
 export async function resendInvitation(ctx: MemberContext, id: string): Promise<InvitationView> {
   const { token, hash } = newToken()
   const expiresAt = new Date(Date.now() + INVITATION_DAYS * 86400_000)
-  const row = await useDb()
-    .updateTable('invitations')
-    .set({ token_hash: hash, expires_at: expiresAt, last_sent_at: new Date(), sent_count: sql`sent_count + 1` })
-    .where('organisation_id', '=', ctx.org.id)
-    .where('id', '=', id)
-    .where('status', '=', 'pending')
-    .returning(columns)
-    .executeTakeFirst()
+  const row = await useDb().transaction().execute(async (trx) => {
+    const updated = await trx
+      .updateTable('invitations')
+      .set({ token_hash: hash, expires_at: expiresAt, last_sent_at: new Date(), sent_count: sql`sent_count + 1` })
+      .where('organisation_id', '=', ctx.org.id)
+      .where('id', '=', id)
+      .where('status', '=', 'pending')
+      .returning(columns)
+      .executeTakeFirst()
+    if (updated) {
+      await record(trx, { ctx, action: 'member.invitation_resent', target: { kind: 'invitation', id: updated.id, label: updated.email }, details: { role: updated.role } })
+    }
+    return updated
+  })
   if (!row) throw notFound('Pending invitation')
   await mail(ctx.org.name, ctx.user.name, row.role, row.email, token, expiresAt)
   return toInvitationView(row)
@@ -87,14 +97,20 @@ export async function resendInvitation(ctx: MemberContext, id: string): Promise<
 
 /** Withdraws a pending invitation; its link then answers that it was withdrawn. */
 export async function revokeInvitation(ctx: MemberContext, id: string): Promise<InvitationView> {
-  const row = await useDb()
-    .updateTable('invitations')
-    .set({ status: 'revoked', revoked_at: new Date() })
-    .where('organisation_id', '=', ctx.org.id)
-    .where('id', '=', id)
-    .where('status', '=', 'pending')
-    .returning(columns)
-    .executeTakeFirst()
+  const row = await useDb().transaction().execute(async (trx) => {
+    const updated = await trx
+      .updateTable('invitations')
+      .set({ status: 'revoked', revoked_at: new Date() })
+      .where('organisation_id', '=', ctx.org.id)
+      .where('id', '=', id)
+      .where('status', '=', 'pending')
+      .returning(columns)
+      .executeTakeFirst()
+    if (updated) {
+      await record(trx, { ctx, action: 'member.invitation_revoked', target: { kind: 'invitation', id: updated.id, label: updated.email }, details: { role: updated.role } })
+    }
+    return updated
+  })
   if (!row) throw notFound('Pending invitation')
   return toInvitationView(row)
 }
@@ -145,5 +161,11 @@ export async function acceptInvitation(trx: Transaction<Database>, token: string
     .set({ status: 'accepted', accepted_at: new Date(), accepted_by: user.id })
     .where('id', '=', inv.id).where('organisation_id', '=', inv.organisation_id)
     .execute()
+  const person = await trx.selectFrom('users').select(['name', 'email']).where('id', '=', user.id).executeTakeFirstOrThrow()
+  const label = `${person.name} <${person.email}>`
+  await record(trx, {
+    organisationId: inv.organisation_id, actor: { id: user.id, label }, action: 'member.joined',
+    target: { kind: 'user', id: user.id, label }, details: { role: active?.role ?? inv.role, invitationId: inv.id, alreadyMember: !!active },
+  })
   return { slug: inv.org_slug, name: inv.org_name, role: active?.role ?? inv.role }
 }

@@ -3,6 +3,7 @@ import type { Database } from '~~/db/database'
 import type { Role } from '#shared/permissions'
 import { takesSeat } from '#shared/billing/plans'
 import { assertSeatFor } from './billing'
+import { record } from './audit'
 
 export interface MemberView { userId: string; name: string; email: string; role: Role; since: Date; qualification: string }
 
@@ -51,6 +52,14 @@ export async function changeRole(ctx: MemberContext, userId: string, role: Role)
       .set({ role, updated_at: new Date(), version: sql`version + 1` })
       .where('organisation_id', '=', ctx.org.id).where('user_id', '=', userId)
       .execute()
+    if (target.role !== role) {
+      // Becoming or ceasing to be an owner is an ownership change: the details say so.
+      const ownership = role === 'owner' ? 'granted' : target.role === 'owner' ? 'given_up' : null
+      await record(trx, {
+        ctx, action: 'member.role_changed', target: { kind: 'user', id: target.id, label: `${target.name} <${target.email}>` },
+        details: { from: target.role, to: role, ...(ownership && { ownership }) },
+      })
+    }
     return { userId: target.id, name: target.name, email: target.email, role, since: target.created_at, qualification: target.qualification }
   })
 }
@@ -59,8 +68,9 @@ export async function changeRole(ctx: MemberContext, userId: string, role: Role)
 export async function removeMember(ctx: MemberContext, userId: string): Promise<void> {
   await useDb().transaction().execute(async (trx) => {
     const owners = await ownersLocked(trx, ctx.org.id)
-    const target = await trx.selectFrom('memberships').select('role')
-      .where('organisation_id', '=', ctx.org.id).where('user_id', '=', userId).where('removed_at', 'is', null)
+    const target = await trx.selectFrom('memberships as m').innerJoin('users as u', 'u.id', 'm.user_id')
+      .select(['m.role', 'u.name', 'u.email'])
+      .where('m.organisation_id', '=', ctx.org.id).where('m.user_id', '=', userId).where('m.removed_at', 'is', null)
       .executeTakeFirst()
     if (!target) throw notFound('Member')
     if (target.role === 'owner' && owners.length <= 1) throw lastOwner(ctx.org.name)
@@ -68,5 +78,9 @@ export async function removeMember(ctx: MemberContext, userId: string): Promise<
       .set({ removed_at: new Date(), updated_at: new Date(), version: sql`version + 1` })
       .where('organisation_id', '=', ctx.org.id).where('user_id', '=', userId)
       .execute()
+    await record(trx, {
+      ctx, action: 'member.removed', target: { kind: 'user', id: userId, label: `${target.name} <${target.email}>` },
+      details: { role: target.role },
+    })
   })
 }

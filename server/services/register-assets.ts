@@ -8,6 +8,7 @@ import { addDays, todayIn } from '#shared/schedule'
 import { changedMeanwhile, isUniqueViolation, likePattern, pageWindow } from './paging'
 import { assetDueSql } from './schedule-sql'
 import { assetView } from './register-views'
+import { record } from './audit'
 
 type Db = Kysely<Database> | Transaction<Database>
 
@@ -199,7 +200,7 @@ export async function setAssetArchived(ctx: MemberContext, id: string, version: 
   await useDb().transaction().execute(async (trx) => {
     const asset = await trx.selectFrom('assets as a')
       .innerJoin('sites as s', (j) => j.onRef('s.organisation_id', '=', 'a.organisation_id').onRef('s.id', '=', 'a.site_id'))
-      .select(['a.version', 'a.archived_at', 's.code', 's.archived_at as site_archived_at'])
+      .select(['a.version', 'a.archived_at', 'a.label', 's.code', 's.archived_at as site_archived_at'])
       .where('a.organisation_id', '=', ctx.org.id).where('a.id', '=', id)
       .forUpdate('a')
       .executeTakeFirst()
@@ -213,6 +214,7 @@ export async function setAssetArchived(ctx: MemberContext, id: string, version: 
       .set({ archived_at: archived ? new Date() : null, updated_at: new Date(), version: sql`version + 1` })
       .where('organisation_id', '=', ctx.org.id).where('id', '=', id)
       .execute()
+    await record(trx, { ctx, action: archived ? 'asset.archived' : 'asset.restored', target: { kind: 'asset', id, label: `${asset.code} · ${asset.label}` } })
   })
   return getAsset(ctx, id)
 }

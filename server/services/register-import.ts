@@ -11,6 +11,7 @@ import { mapHeader, readAssetRow, readSiteRow, rowKeys, type HeaderMap } from '#
 import { IMPORT_MAX_ROWS, type ImportCreateInput } from '#shared/schemas/register'
 import type { ImportProblemItem, ImportSummary } from '#shared/types/register'
 import { isUniqueViolation, pageWindow } from './paging'
+import { record } from './audit'
 import { assertSiteRoom } from './plan-limits'
 
 type Trx = Transaction<Database>
@@ -228,6 +229,7 @@ export async function commitImport(ctx: MemberContext, id: string): Promise<Impo
       await trx.updateTable('register_imports')
         .set({ status: 'committed', inserted_count: inserted, bad_row_count: 0, committed_at: new Date(), updated_at: new Date() })
         .where('organisation_id', '=', ctx.org.id).where('id', '=', id).execute()
+      await record(trx, { ctx, action: 'register.import_committed', target: { kind: 'register_import', id, label: session.file_name }, details: { kind: session.kind, rows: inserted } })
     })
   } catch (err) {
     if (isUniqueViolation(err, 'sites_org_code_key') || isUniqueViolation(err, 'assets_site_label_key')) {

@@ -7,6 +7,7 @@ import type { RegisterPage, SiteItem } from '#shared/types/register'
 import { changedMeanwhile, isUniqueViolation, likePattern, pageWindow } from './paging'
 import { siteView } from './register-views'
 import { assertSiteRoom } from './plan-limits'
+import { record } from './audit'
 
 type Db = Kysely<Database> | Transaction<Database>
 
@@ -133,19 +134,26 @@ export async function setSiteArchived(ctx: MemberContext, id: string, version: n
     if (site.version !== version) throw changedMeanwhile('site')
     if ((site.archived_at !== null) === archived) return
     const now = new Date()
+    let assets: bigint | number
     if (archived) {
-      await trx.updateTable('assets').set({ archived_at: now, updated_at: now, version: sql`version + 1` })
-        .where('organisation_id', '=', ctx.org.id).where('site_id', '=', id).where('archived_at', 'is', null).execute()
+      const r = await trx.updateTable('assets').set({ archived_at: now, updated_at: now, version: sql`version + 1` })
+        .where('organisation_id', '=', ctx.org.id).where('site_id', '=', id).where('archived_at', 'is', null).executeTakeFirst()
+      assets = r.numUpdatedRows
     } else {
       await assertSiteRoom(trx, ctx.org.id, 1)
-      await trx.updateTable('assets').set({ archived_at: null, updated_at: now, version: sql`version + 1` })
+      const r = await trx.updateTable('assets').set({ archived_at: null, updated_at: now, version: sql`version + 1` })
         .where('organisation_id', '=', ctx.org.id).where('site_id', '=', id)
         // Compared in SQL: the stored timestamp has microseconds a JavaScript Date would round away.
         .where('archived_at', '=', (eb) => eb.selectFrom('sites').select('archived_at').where('organisation_id', '=', ctx.org.id).where('id', '=', id))
-        .execute()
+        .executeTakeFirst()
+      assets = r.numUpdatedRows
     }
     await trx.updateTable('sites').set({ archived_at: archived ? now : null, updated_at: now, version: sql`version + 1` })
       .where('organisation_id', '=', ctx.org.id).where('id', '=', id).execute()
+    await record(trx, {
+      ctx, action: archived ? 'site.archived' : 'site.restored', target: { kind: 'site', id, label: `${site.code} · ${site.name}` },
+      details: { assets: Number(assets) },
+    })
   })
   return getSite(ctx, id)
 }

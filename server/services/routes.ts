@@ -7,6 +7,7 @@ import type { routeCreateSchema, routeListQuerySchema, routeUpdateSchema } from 
 import type { Page, RouteDetail, RouteListItem, RouteStopItem } from '#shared/types/programme'
 import { changedMeanwhile, likePattern, pageWindow } from './paging'
 import { programmeSettings, type ProgrammeSettings } from './programme-settings'
+import { record } from './audit'
 
 type Db = ReturnType<typeof useDb> | Transaction<Database>
 
@@ -206,10 +207,13 @@ export async function orderRoute(ctx: MemberContext, id: string, version: number
 /** Archives or restores a route (never deleted: surveys will refer to it). */
 export async function setRouteArchived(ctx: MemberContext, id: string, version: number, archived: boolean): Promise<RouteDetail> {
   await useDb().transaction().execute(async (trx) => {
-    await lockVersion(trx, ctx, id, version)
-    await trx.updateTable('routes')
+    const before = await lockVersion(trx, ctx, id, version)
+    const route = await trx.updateTable('routes')
       .set({ archived_at: archived ? sql`coalesce(archived_at, now())` : null, version: sql`version + 1`, updated_at: new Date() })
-      .where('organisation_id', '=', ctx.org.id).where('id', '=', id).execute()
+      .where('organisation_id', '=', ctx.org.id).where('id', '=', id).returning('name').executeTakeFirstOrThrow()
+    if ((before.archived_at === null) === archived) {
+      await record(trx, { ctx, action: archived ? 'route.archived' : 'route.restored', target: { kind: 'route', id, label: route.name } })
+    }
   })
   return getRoute(ctx, id)
 }

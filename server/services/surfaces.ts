@@ -4,6 +4,7 @@ import type { SurfaceRow } from '~~/db/tables/surfaces'
 import { SURFACE_METHOD_LABELS, type surfaceCreateSchema, type surfaceListQuerySchema, type surfaceUpdateSchema } from '#shared/schemas/surface'
 import type { Page, SurfaceItem } from '#shared/types/programme'
 import { changedMeanwhile, likePattern, num, pageWindow } from './paging'
+import { record } from './audit'
 
 type Row = Omit<SurfaceRow, 'measured_on' | 'created_by' | 'organisation_id' | 'created_at' | 'updated_at' | 'archived_at'> & {
   measured_on: string | null
@@ -98,10 +99,16 @@ export async function updateSurface(ctx: MemberContext, id: string, input: z.out
 /** Archives a measured value: it leaves the library, records that used it keep their number. */
 export async function archiveSurface(ctx: MemberContext, id: string, version: number): Promise<{ id: string; archived: true }> {
   await measuredOnly(ctx, id)
-  const row = await useDb().updateTable('surfaces')
-    .set({ archived_at: new Date(), version: sql`version + 1`, updated_at: new Date() })
-    .where('organisation_id', '=', ctx.org.id).where('id', '=', id).where('version', '=', version).where('archived_at', 'is', null)
-    .returning('id').executeTakeFirst()
+  const row = await useDb().transaction().execute(async (trx) => {
+    const archived = await trx.updateTable('surfaces')
+      .set({ archived_at: new Date(), version: sql`version + 1`, updated_at: new Date() })
+      .where('organisation_id', '=', ctx.org.id).where('id', '=', id).where('version', '=', version).where('archived_at', 'is', null)
+      .returning(['id', 'name', 'emissivity']).executeTakeFirst()
+    if (archived) {
+      await record(trx, { ctx, action: 'surface.archived', target: { kind: 'surface', id, label: archived.name }, details: { emissivity: Number(archived.emissivity) } })
+    }
+    return archived
+  })
   if (!row) throw changedMeanwhile('surface')
   return { id, archived: true }
 }

@@ -3,6 +3,7 @@
 import { sql, type Transaction } from 'kysely'
 import type { z } from 'zod'
 import type { Database } from '~~/db/database'
+import { changesOf, record } from './audit'
 import type { FindingRow } from '~~/db/tables/findings'
 import type { ReadingWarning } from '#shared/thermal/index'
 import { can, type Role } from '#shared/permissions'
@@ -534,6 +535,7 @@ export async function cancelWorkOrder(ctx: MemberContext, id: string, input: z.o
       reason: input.reason, details: { from: wo.state },
     })
     await bump(trx, ctx, id, { state: 'cancelled', state_reason: input.reason, deferred_until: null })
+    await record(trx, { ctx, action: 'work_order.cancelled', target: { kind: 'work_order', id, label: `${workOrderReference(wo.number)} · ${wo.title}` }, details: { from: wo.state, reason: input.reason } })
   })
   return getWorkOrder(ctx, id)
 }
@@ -604,8 +606,18 @@ export async function updateRepairDeadlines(ctx: MemberContext, input: z.output<
   if (input.repairDaysBand2 !== undefined) set.repair_days_band2 = input.repairDaysBand2
   if (input.repairDaysBand3 !== undefined) set.repair_days_band3 = input.repairDaysBand3
   if (input.repairDaysBand4 !== undefined) set.repair_days_band4 = input.repairDaysBand4
-  const row = await useDb().updateTable('organisations').set({ ...set, version: sql`version + 1`, updated_at: new Date() })
-    .where('id', '=', ctx.org.id).where('version', '=', input.version).returning('id').executeTakeFirst()
+  const row = await useDb().transaction().execute(async (trx) => {
+    const before = await trx.selectFrom('organisations').select(['repair_days_band1', 'repair_days_band2', 'repair_days_band3', 'repair_days_band4'])
+      .where('id', '=', ctx.org.id).where('version', '=', input.version).forUpdate().executeTakeFirst()
+    if (!before) return undefined
+    const updated = await trx.updateTable('organisations').set({ ...set, version: sql`version + 1`, updated_at: new Date() })
+      .where('id', '=', ctx.org.id).where('version', '=', input.version).returning('id').executeTakeFirst()
+    const changes = changesOf(before as Record<string, unknown>, set)
+    if (updated && Object.keys(changes).length) {
+      await record(trx, { ctx, action: 'organisation.repair_deadlines_changed', target: { kind: 'organisation', id: ctx.org.id, label: ctx.org.name }, details: { changes } })
+    }
+    return updated
+  })
   if (!row) throw changedMeanwhile('organisation')
   return repairDeadlinesOf(ctx)
 }

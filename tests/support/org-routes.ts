@@ -126,6 +126,8 @@ export const ORG_ROUTES: OrgRoute[] = [
   { file: 'orgs/[org]/api-tokens/index.post.ts', method: 'POST', path: '/api/orgs/:org/api-tokens', permission: 'tokens.manage', body: { name: 'Intruder token', scope: 'read_write' } },
   { file: 'orgs/[org]/api-tokens/[id]/revoke.post.ts', method: 'POST', path: '/api/orgs/:org/api-tokens/:id/revoke', permission: 'tokens.manage', idKind: 'apiToken' },
   { file: 'orgs/[org]/api-tokens/[id]/requests.get.ts', method: 'GET', path: '/api/orgs/:org/api-tokens/:id/requests', permission: 'tokens.manage', idKind: 'apiToken' },
+  // The audit log (owners).
+  { file: 'orgs/[org]/audit/index.get.ts', method: 'GET', path: '/api/orgs/:org/audit', permission: 'audit.view' },
   // Survey reports (PDF) and the thermographer's qualification printed on them.
   { file: 'orgs/[org]/surveys/[id]/reports/index.post.ts', method: 'POST', path: '/api/orgs/:org/surveys/:id/reports', permission: 'reports.create', body: { includeImages: false }, idKind: 'survey' },
   { file: 'orgs/[org]/surveys/[id]/reports/index.get.ts', method: 'GET', path: '/api/orgs/:org/surveys/:id/reports', permission: 'reports.view', idKind: 'survey' },
