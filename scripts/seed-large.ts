@@ -1,17 +1,21 @@
-// Loads one large invented organisation — 5 000 sites and 100 000 assets — for the asset-list benchmark and for
-// trying the register at utility scale. Separate from the demo seed and never part of the tests.
+// Loads one large invented organisation — 5 000 sites and 100 000 assets, then (second stage,
+// scripts/seed-large-fieldwork.ts) four rounds of surveys with ~400 000 checks, 200 000 findings and 20 000 work
+// orders — for the list and load benchmarks and for trying the product at utility scale. Separate from the demo seed
+// and never part of the tests.
 //
 //   set -a; . .data/dev/services.env; set +a
-//   node --import tsx scripts/seed-large.ts            # adds it unless it is there
+//   node --import tsx scripts/seed-large.ts            # adds it unless it is there (or only its fieldwork, if missing)
 //   node --import tsx scripts/seed-large.ts --replace  # removes it first and loads it again
 //
-// Meant for a development database: the assets table is locked while its indexes are rebuilt (about 20 s).
+// Meant for a development database: the assets, checks, findings and timeline tables are locked while their
+// indexes are rebuilt (the whole load takes a few minutes on two cores; each step prints its time).
 // Rows are generated inside PostgreSQL (INSERT … SELECT over generate_series): two statements instead of
 // 105 000 round trips. Values come from hashing the row number, so every run gives the same data.
 import bcrypt from 'bcryptjs'
 import { sql } from 'kysely'
 import { connect } from '../db/migrator'
 import { ASSET_CLASSES } from '../shared/register'
+import { seedLargeFieldwork } from './seed-large-fieldwork'
 
 const LARGE_ORG = { slug: 'greyfield-large', name: 'Greyfield Grid (large, invented)' }
 const LARGE_OWNER = { email: 'large-owner@greyfield.example', name: 'Greyfield Owner', password: 'greybody-large-2026' }
@@ -42,14 +46,28 @@ const db = connect(url, 1)
 const started = Date.now()
 try {
   const present = await db.selectFrom('organisations').select('id').where('slug', '=', LARGE_ORG.slug).executeTakeFirst()
-  if (present && !replace) {
+  const hasFieldwork = present
+    ? !!(await db.selectFrom('surveys').select('id').where('organisation_id', '=', present.id).limit(1).executeTakeFirst())
+    : false
+  const passwordHash = () => bcrypt.hash(LARGE_OWNER.password, 10)
+  const say = (line: string) => console.log(line)
+  if (present && !replace && hasFieldwork) {
     console.log(`${LARGE_ORG.name} is already loaded (use --replace to load it again).`)
+  } else if (present && !replace) {
+    // Loaded by an earlier version of this script (register only): add the second stage.
+    console.log(`${LARGE_ORG.name} has its register but no fieldwork: adding it.`)
+    await db.transaction().execute(async (trx) => {
+      const owner = await trx.selectFrom('users').select('id').where(sql`lower(email)`, '=', LARGE_OWNER.email).executeTakeFirstOrThrow()
+      await seedLargeFieldwork(trx, { orgId: present.id, ownerId: owner.id, passwordHash: await passwordHash(), say })
+    })
   } else {
     await db.transaction().execute(async (trx) => {
       if (present) {
-        // Children first: the register tables reference the organisation without cascading through each other.
-        for (const table of ['register_import_rows', 'register_imports', 'assets'] as const) {
-          await trx.deleteFrom(table).where('organisation_id', '=', present.id).execute()
+        // Children first: these tables reference the organisation without cascading through each other.
+        say('Removing the earlier copy…')
+        for (const table of ['record_events', 'verifications', 'work_order_assignees', 'work_order_findings', 'work_orders', 'findings', 'checks',
+          'survey_sites', 'surveys', 'instruments', 'register_import_rows', 'register_imports', 'assets'] as const) {
+          await sql`delete from ${sql.table(table)} where organisation_id = ${present.id}`.execute(trx)
         }
         await sql`delete from organisations where id = ${present.id}`.execute(trx)
       }
@@ -57,7 +75,7 @@ try {
         .returning('id').executeTakeFirstOrThrow()
       let user = await trx.selectFrom('users').select('id').where(sql`lower(email)`, '=', LARGE_OWNER.email).executeTakeFirst()
       user ??= await trx.insertInto('users')
-        .values({ email: LARGE_OWNER.email, name: LARGE_OWNER.name, password_hash: await bcrypt.hash(LARGE_OWNER.password, 10), time_zone: 'Europe/London' })
+        .values({ email: LARGE_OWNER.email, name: LARGE_OWNER.name, password_hash: await passwordHash(), time_zone: 'Europe/London' })
         .returning('id').executeTakeFirstOrThrow()
       await trx.insertInto('memberships').values({ organisation_id: org.id, user_id: user.id, role: 'owner', removed_at: null }).execute()
 
@@ -101,14 +119,20 @@ try {
         from (select id, voltage_kv, row_number() over (order by code) as n from sites where organisation_id = ${org.id}) s
         cross join generate_series(1, ${ASSETS_PER_SITE}) as j`.execute(trx)
       for (const ix of indexes) await sql.raw(ix.def).execute(trx)
+      say(`Register: ${SITES.toLocaleString('en-GB')} sites, ${(SITES * ASSETS_PER_SITE).toLocaleString('en-GB')} assets (${((Date.now() - started) / 1000).toFixed(1)} s). Fieldwork:`)
+      await seedLargeFieldwork(trx, { orgId: org.id, ownerId: user.id, passwordHash: await passwordHash(), say })
     })
-    await sql`analyze sites`.execute(db)
-    await sql`analyze assets`.execute(db)
+  }
+  if (!(present && !replace && hasFieldwork)) {
+    for (const t of ['sites', 'assets', 'surveys', 'survey_sites', 'checks', 'findings', 'work_orders', 'work_order_findings', 'work_order_assignees',
+      'verifications', 'record_events']) await sql`analyze ${sql.table(t)}`.execute(db)
     const org = await db.selectFrom('organisations').select('id').where('slug', '=', LARGE_ORG.slug).executeTakeFirstOrThrow()
-    const count = async (t: 'sites' | 'assets') =>
-      Number((await db.selectFrom(t).select((eb) => eb.fn.countAll().as('n')).where('organisation_id', '=', org.id).executeTakeFirstOrThrow()).n)
-    console.log(`Loaded ${LARGE_ORG.name}: ${(await count('sites')).toLocaleString('en-GB')} sites, ${(await count('assets')).toLocaleString('en-GB')} assets in ${((Date.now() - started) / 1000).toFixed(1)} s.`)
-    console.log(`Sign in as ${LARGE_OWNER.email} / ${LARGE_OWNER.password}, then open /orgs/${LARGE_ORG.slug}/assets.`)
+    const count = async (t: string) =>
+      Number((await sql<{ n: number }>`select count(*) as n from ${sql.table(t)} where organisation_id = ${org.id}`.execute(db)).rows[0]!.n).toLocaleString('en-GB')
+    console.log(`Loaded ${LARGE_ORG.name} in ${((Date.now() - started) / 1000).toFixed(1)} s: ${await count('sites')} sites, ${await count('assets')} assets, `
+      + `${await count('surveys')} surveys, ${await count('checks')} checks, ${await count('findings')} findings, ${await count('work_orders')} work orders, `
+      + `${await count('record_events')} timeline entries.`)
+    console.log(`Sign in as ${LARGE_OWNER.email} / ${LARGE_OWNER.password} (other members: large-<role>-NN@greyfield.example, same password), then open /orgs/${LARGE_ORG.slug}/findings.`)
   }
 } finally {
   await db.destroy()

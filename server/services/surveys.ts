@@ -17,8 +17,9 @@ import type { FindingListItem, SurveyAsset, SurveyDetail, SurveyFinding, SurveyL
 import type { Page } from '#shared/types/programme'
 import { changedMeanwhile, num, pageWindow } from './paging'
 import { notifyBandOneFinding } from './notices'
-import { assertSurface, effectiveBandSql, findingColumns, findingExtras, reviewerNameSql, type FindingRowWithReviewer } from './finding-parts'
+import { assertSurface, findingColumns, findingExtras, reviewerNameSql, type FindingRowWithReviewer } from './finding-parts'
 import { linkGridToFinding } from './temperature-grids'
+import { findingListQueries } from './finding-list-sql'
 
 type Db = ReturnType<typeof useDb> | Transaction<Database>
 
@@ -423,36 +424,19 @@ export async function listFindings(
   ctx: MemberContext,
   q: z.output<typeof findingListQuerySchema>,
 ): Promise<Page<FindingListItem>> {
+  // Built in finding-list-sql.ts, so the load benchmark can time the very same SQL straight against PostgreSQL.
   const db = useDb()
-  let query = db.selectFrom('findings as f')
-    .innerJoin('checks as c', (j) => j.onRef('c.organisation_id', '=', 'f.organisation_id').onRef('c.id', '=', 'f.check_id'))
-    .innerJoin('surveys as s', (j) => j.onRef('s.organisation_id', '=', 'c.organisation_id').onRef('s.id', '=', 'c.survey_id'))
-    .innerJoin('assets as a', (j) => j.onRef('a.organisation_id', '=', 'c.organisation_id').onRef('a.id', '=', 'c.asset_id'))
-    .innerJoin('sites as si', (j) => j.onRef('si.organisation_id', '=', 'a.organisation_id').onRef('si.id', '=', 'a.site_id'))
-    .where('f.organisation_id', '=', ctx.org.id)
-    .where('s.archived_at', 'is', null)
-  if (q.band) query = query.where(effectiveBandSql(), '=', q.band)
-  if (q.surveyId) query = query.where('s.id', '=', q.surveyId)
-  // The dashboard's filters (same rules as its figures, server/services/dashboard.ts).
-  if (q.open === 'true') {
-    query = query.where('f.closed_at', 'is', null).where('f.archived_at', 'is', null).where('s.state', 'in', ['submitted', 'reviewed'])
-  }
-  if (q.counted === 'true') query = query.where('f.archived_at', 'is', null).where('s.state', 'in', ['submitted', 'reviewed'])
-  if (q.siteId) query = query.where('a.site_id', '=', q.siteId)
-  const recordedOn = sql`(f.created_at at time zone (select o.time_zone from organisations o where o.id = f.organisation_id))::date`
-  if (q.from) query = query.where(sql<boolean>`${recordedOn} >= ${q.from}::date`)
-  if (q.to) query = query.where(sql<boolean>`${recordedOn} <= ${q.to}::date`)
-  const { limit, offset } = pageWindow(q.page, q.pageSize)
-  const [count, rows] = await Promise.all([
-    query.select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow(),
-    query.selectAll('f').select(['c.asset_id', 's.id as survey_id', 'a.label as asset_label', 'si.name as site_name']).select(reviewerNameSql().as('reviewer_name'))
-      .select(sql<string>`to_char(s.planned_for, 'YYYY-MM-DD')`.as('planned_for'))
-      .orderBy('s.planned_for', 'desc').orderBy(sql`coalesce(f.reviewed_band, f.band) asc nulls last`).orderBy('f.created_at').orderBy('f.id')
-      .limit(limit).offset(offset).execute(),
-  ])
+  const timeZone = q.from || q.to
+    ? (await db.selectFrom('organisations').select('time_zone').where('id', '=', ctx.org.id).executeTakeFirstOrThrow()).time_zone
+    : undefined
+  const { count: countQuery, countCap, rows: rowsQuery } = findingListQueries(db, ctx.org.id, q, timeZone)
+  const [count, rows] = await Promise.all([countQuery.executeTakeFirstOrThrow(), rowsQuery.execute()])
+  const n = Number(count.n)
   return {
     items: rows.map((r) => ({ ...toFinding(r, r.asset_id), surveyId: r.survey_id, plannedFor: r.planned_for, siteName: r.site_name, assetLabel: r.asset_label })),
-    total: Number(count.n),
+    // Counted up to countCap: beyond it the list says "more than countCap".
+    total: Math.min(n, countCap),
+    ...(n > countCap ? { totalCapped: true } : {}),
     page: q.page,
     pageSize: q.pageSize,
   }

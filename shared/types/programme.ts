@@ -10,6 +10,8 @@ export interface Page<T> {
   total: number
   page: number
   pageSize: number
+  /** Set when the list stopped counting at `total` and there are more (the findings list; see finding-list-sql.ts). */
+  totalCapped?: boolean
 }
 
 /** GET /api/orgs/:org/instruments, …/instruments/:id */

@@ -1,0 +1,76 @@
+// The findings list's two queries (the page and its total), built but not run. Plain Kysely with relative imports
+// only (no Nitro auto-imports, no path aliases), so scripts/bench/load.bench.ts compiles exactly the SQL and
+// parameters the route sends and times it straight against PostgreSQL beside the route itself.
+import { sql, type Kysely } from 'kysely'
+import type { Database } from '../../db/database'
+import { pageWindow } from './paging'
+
+/** The list's filters as the route's schema (findingListQuerySchema) outputs them. */
+export interface FindingListFilters {
+  page: number
+  pageSize: number
+  band?: number
+  surveyId?: string
+  open?: 'true' | 'false'
+  counted?: 'true' | 'false'
+  siteId?: string
+  from?: string
+  to?: string
+}
+
+/**
+ * Past this many findings after the requested page's first row, the list stops counting and says "more than". An
+ * exact count of tens of thousands of joined rows cost more than everything else in the request together (see
+ * scripts/bench/load.bench.ts); nobody pages through a thousand findings, they narrow the filters.
+ */
+export const FINDING_COUNT_CAP = 1000
+
+/**
+ * The page of findings (newest survey first, then the most severe band, then the order they were recorded) and the
+ * count of the findings the filters match, up to the page's offset + FINDING_COUNT_CAP + 1 (one more than can be
+ * shown, so the caller knows there are more). The organisation condition is on every table read (tenant condition
+ * inside the WHERE: a list can never show or count another organisation's findings). `timeZone` is the
+ * organisation's (organisations.time_zone), needed only with `from` or `to`.
+ */
+export function findingListQueries(db: Kysely<Database>, orgId: string, q: FindingListFilters, timeZone = 'UTC') {
+  // Findings, their check and survey: every filter but the site is on these three.
+  let base = db.selectFrom('findings as f')
+    .innerJoin('checks as c', (j) => j.onRef('c.organisation_id', '=', 'f.organisation_id').onRef('c.id', '=', 'f.check_id'))
+    .innerJoin('surveys as s', (j) => j.onRef('s.organisation_id', '=', 'c.organisation_id').onRef('s.id', '=', 'c.survey_id'))
+    .where('f.organisation_id', '=', orgId)
+    .where('s.archived_at', 'is', null)
+  // The reviewed band where there is one, else the computed band (effectiveBandSql in finding-parts.ts).
+  if (q.band) base = base.where(sql<number>`coalesce(f.reviewed_band, f.band)`, '=', q.band)
+  if (q.surveyId) base = base.where('s.id', '=', q.surveyId)
+  // The dashboard's filters (same rules as its figures, server/services/dashboard.ts).
+  if (q.open === 'true') {
+    base = base.where('f.closed_at', 'is', null).where('f.archived_at', 'is', null).where('s.state', 'in', ['submitted', 'reviewed'])
+  }
+  if (q.counted === 'true') base = base.where('f.archived_at', 'is', null).where('s.state', 'in', ['submitted', 'reviewed'])
+  // Recorded on or after `from` and on or before `to`, in the organisation's time zone: as bounds on created_at
+  // itself (local midnight of `from`, local midnight after `to`), so PostgreSQL estimates them from the column's
+  // statistics and picks the newest-survey-first plan. Same rows as comparing the local date.
+  if (q.from) base = base.where(sql<boolean>`f.created_at >= (${q.from}::date::timestamp at time zone ${timeZone})`)
+  if (q.to) base = base.where(sql<boolean>`f.created_at < ((${q.to}::date + 1)::timestamp at time zone ${timeZone})`)
+  // Every check's asset and every asset's site exist (composite foreign keys, same organisation), so these joins
+  // never drop a row: the count only joins them to filter by site.
+  const withAsset = base
+    .innerJoin('assets as a', (j) => j.onRef('a.organisation_id', '=', 'c.organisation_id').onRef('a.id', '=', 'c.asset_id'))
+    .where('a.organisation_id', '=', orgId)
+  const counted = q.siteId ? withAsset.where('a.site_id', '=', q.siteId) : base
+  const listed = (q.siteId ? withAsset.where('a.site_id', '=', q.siteId) : withAsset)
+    .innerJoin('sites as si', (j) => j.onRef('si.organisation_id', '=', 'a.organisation_id').onRef('si.id', '=', 'a.site_id'))
+  const { limit, offset } = pageWindow(q.page, q.pageSize)
+  return {
+    count: db.selectFrom(counted.select(sql<number>`1`.as('one')).limit(offset + FINDING_COUNT_CAP + 1).as('m'))
+      .select((eb) => eb.fn.countAll<number>().as('n')),
+    /** Rows beyond this are not counted: a count above it means "more than countCap". */
+    countCap: offset + FINDING_COUNT_CAP,
+    rows: listed.selectAll('f').select(['c.asset_id', 's.id as survey_id', 'a.label as asset_label', 'si.name as site_name'])
+      // The reviewer's name (reviewerNameSql in finding-parts.ts): users are global, the id comes from the tenant's row.
+      .select(sql<string | null>`(select u.name from users u where u.id = f.reviewed_by)`.as('reviewer_name'))
+      .select(sql<string>`to_char(s.planned_for, 'YYYY-MM-DD')`.as('planned_for'))
+      .orderBy('s.planned_for', 'desc').orderBy(sql`coalesce(f.reviewed_band, f.band) asc nulls last`).orderBy('f.created_at').orderBy('f.id')
+      .limit(limit).offset(offset),
+  }
+}
