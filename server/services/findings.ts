@@ -7,6 +7,7 @@ import type { AssetHistoryItem } from '#shared/types/finding'
 import type { Page } from '#shared/types/programme'
 import type { SurveyFinding } from '#shared/types/survey'
 import { assertSurface, findingColumns, reviewerNameSql } from './finding-parts'
+import { notifyBandOneFinding } from './notices'
 import { changedMeanwhile, pageWindow } from './paging'
 import { DEFAULT_CRITERIA_ID, toFinding } from './surveys'
 
@@ -57,6 +58,10 @@ export async function rankFinding(ctx: MemberContext, id: string, input: z.outpu
       reviewed_band: input.band, review_reason: input.reason, reviewed_by: ctx.user.id, reviewed_at: new Date(),
       version: sql`version + 1`, updated_at: new Date(),
     }).where('organisation_id', '=', ctx.org.id).where('id', '=', id).execute()
+    // Raised to band 1 on review: the managers hear of it as if it had been recorded so (once per finding).
+    if (input.band === 1 && (finding.reviewed_band ?? finding.band) !== 1) {
+      await notifyBandOneFinding(trx, ctx, finding, survey.id, assetId, 'reviewed')
+    }
     return assetId
   })
   return reread(ctx, id, assetId)

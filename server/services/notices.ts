@@ -289,6 +289,7 @@ export async function notifyBandOneFinding(
   f: { id: string; component: string; phase: string; rise_over_reference_k: number | null; rise_over_ambient_k: number | null; object_c: number },
   surveyId: string,
   assetId: string,
+  how: 'recorded' | 'reviewed' = 'recorded',
 ): Promise<NotifyResult> {
   const where = await db.selectFrom('assets as a')
     .innerJoin('sites as si', (j) => j.onRef('si.organisation_id', '=', 'a.organisation_id').onRef('si.id', '=', 'a.site_id'))
@@ -302,10 +303,13 @@ export async function notifyBandOneFinding(
   const component = `${f.component}${f.phase ? ` (phase ${f.phase})` : ''}`
   return notify(db, {
     organisationId: ctx.org.id,
-    userIds: managers.map((m) => m.user_id),
+    // On review, the manager who raised it knows already; the other managers and owners are told.
+    userIds: managers.map((m) => m.user_id).filter((id) => how === 'recorded' || id !== ctx.user.id),
     kind: 'finding_band1',
     title: `Band 1 finding on ${asset}`,
-    body: `${ctx.user.name} has just recorded a band 1 finding, the most severe band of the criteria set, on ${component} of ${asset}.${riseText} Review the reading and plan the repair.\n${SAFETY_CAUTION_SHORT}`,
+    body: how === 'recorded'
+      ? `${ctx.user.name} has just recorded a band 1 finding, the most severe band of the criteria set, on ${component} of ${asset}.${riseText} Review the reading and plan the repair.\n${SAFETY_CAUTION_SHORT}`
+      : `${ctx.user.name} has corrected a finding on ${component} of ${asset} to band 1, the most severe band of the criteria set, on review.${riseText} Plan the repair.\n${SAFETY_CAUTION_SHORT}`,
     link: `/orgs/${ctx.org.slug}/surveys/${surveyId}`,
     dedupeKey: `finding_band1:${f.id}`,
   })

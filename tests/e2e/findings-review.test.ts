@@ -7,6 +7,7 @@ import { NETA_100_18, rankRise } from '../../shared/thermal/index'
 // Offline replays (Idempotency-Key), a manager's band review, editing a saved finding, and an asset's history.
 
 let owner: ApiClient
+let ownerId: string
 let slug: string
 let instrumentId: string
 const sites: Record<string, string> = {}
@@ -48,7 +49,7 @@ async function count(table: 'findings' | 'checks' | 'idempotency_keys', where: R
 
 beforeAll(async () => {
   await resetDatabase()
-  ;({ client: owner, slug } = await signUpOwner('Fay Fieldwork', 'fay@field.test', 'Fay Grid'))
+  ;({ client: owner, slug, userId: ownerId } = await signUpOwner('Fay Fieldwork', 'fay@field.test', 'Fay Grid'))
   await join('thermo', 'thermographer', 'tam@field.test')
   await join('other', 'thermographer', 'oli@field.test')
   await join('manager', 'manager', 'max@field.test')
@@ -134,6 +135,25 @@ describe('offline replays with an Idempotency-Key', () => {
     expect(bad.status).toBe(400)
     expect(bad.body.data.message).toMatch(/Idempotency-Key/)
   })
+
+  it('forgets answered keys after 30 days in the scheduler housekeeping, and only those', async () => {
+    const key = randomUUID()
+    const saved = await withKey(thermo(), url('conditions'), { siteId: sites.F1, ambientC: 14 }, key)
+    expect(saved.status).toBe(200)
+    const prune = (days: number) => new ApiClient().post('/api/dev/notices/run', {
+      now: new Date(Date.now() + days * 86_400_000).toISOString(), jobs: false, deliver: false, prune: true,
+    })
+    const early = await prune(29)
+    expect(early.status).toBe(200)
+    expect(await count('idempotency_keys', { key })).toBe(1)
+    const late = await prune(31)
+    expect(late.body.pruned.idempotencyKeys).toBeGreaterThanOrEqual(1)
+    expect(await count('idempotency_keys', { key })).toBe(0)
+    // After the key is forgotten, the same key is a new request again (a phone a month late writes once more).
+    const again = await withKey(thermo(), url('conditions'), { siteId: sites.F1, ambientC: 14 }, key)
+    expect(again.status).toBe(200)
+    expect(again.headers.get('idempotent-replayed')).toBeNull()
+  })
 })
 
 describe('a manager corrects a band on review', () => {
@@ -184,6 +204,31 @@ describe('a manager corrects a band on review', () => {
     expect((await owner.get(`/api/orgs/${slug}/findings?band=1&surveyId=${surveyId}`)).body.total).toBe(0)
     const stale = await rank(people.manager!.client, { band: 3, reason: 'A second look from an old screen.', version: finding.version })
     expect(stale.status).toBe(409)
+  })
+
+  it('tells the managers when a milder finding is raised to band 1 on review, once', async () => {
+    const site = await owner.post(`/api/orgs/${slug}/sites`, { code: 'F4', name: 'Fen F4', kind: 'substation', latitude: 52.3, longitude: 0.2 })
+    const asset = await owner.post(`/api/orgs/${slug}/assets`, { siteId: site.body.id, label: 'R1', assetClass: 'breaker' })
+    const sid = await startedSurvey([site.body.id])
+    // ANSI/NETA Table 100.18 over ambient: 21–40 K is the second most severe band; 34 °C apparent at ε 0.5 with 20 °C
+    // reflected is about 49 °C, some 29 K over the 20 °C ambient.
+    const mild = await thermo().post(`/api/orgs/${slug}/surveys/${sid}/findings`, { assetId: asset.body.id, ...reading, apparentC: 34 })
+    expect(mild.status, JSON.stringify(mild.body)).toBe(201)
+    expect(mild.body.band).toBeGreaterThan(1)
+    const s = await thermo().get(`/api/orgs/${slug}/surveys/${sid}`)
+    expect((await thermo().post(`/api/orgs/${slug}/surveys/${sid}/submit`, { version: s.body.version })).status).toBe(200)
+    const band1 = () => testDb().selectFrom('notices').select(['user_id', 'body'])
+      .where('kind', '=', 'finding_band1').where('dedupe_key', '=', `finding_band1:${mild.body.id}`).execute()
+    expect(await band1()).toHaveLength(0)
+    const raised = await rank(people.manager!.client, { band: 1, reason: 'Discoloured insulation seen beside the joint.', version: mild.body.version }, mild.body.id)
+    expect(raised.status, JSON.stringify(raised.body)).toBe(200)
+    const told = await band1()
+    expect(told.map((n) => n.user_id)).toEqual([ownerId])
+    expect(told[0]!.body).toMatch(/corrected a finding .* to band 1/)
+    // Lowered and raised again: still one notice per person.
+    const lowered = await rank(people.manager!.client, { band: 2, reason: 'Second opinion: insulation is only dirty.', version: raised.body.version }, mild.body.id)
+    await rank(people.manager!.client, { band: 1, reason: 'Third opinion: it is discoloured after all.', version: lowered.body.version }, mild.body.id)
+    expect(await band1()).toHaveLength(1)
   })
 
   it('does not find another organisation’s finding', async () => {
