@@ -10,11 +10,30 @@ function invalid(error: z.ZodError, where: string): never {
   })
 }
 
+/** The path of the first text holding a NUL character, which PostgreSQL cannot store (it would answer 500). */
+function nulPath(value: unknown, path: string[] = []): string[] | undefined {
+  if (typeof value === 'string') return value.includes('\u0000') ? path : undefined
+  if (value && typeof value === 'object') {
+    for (const [k, v] of Object.entries(value)) {
+      const found = nulPath(v, [...path, k])
+      if (found) return found
+    }
+  }
+  return undefined
+}
+
+function refuseNul(value: unknown) {
+  const at = nulPath(value)
+  if (at) fieldError(at.join('.') || '_', 'Remove the invisible NUL character from this text.')
+}
+
 /** Reads and validates the JSON body; 400 with field paths when it does not match. */
 export async function bodyOf<S extends z.ZodType>(event: H3Event, schema: S): Promise<z.output<S>> {
-  const raw = await readBody(event).catch(() => undefined)
+  // Unreadable JSON (or keys that could pollute prototypes) is refused, not taken for an empty form.
+  const raw = await readBody(event).catch(() => fieldError('_', 'The request body is not valid JSON.'))
   const result = schema.safeParse(raw ?? {})
   if (!result.success) invalid(result.error, 'form')
+  refuseNul(result.data)
   return result.data
 }
 
@@ -22,6 +41,7 @@ export async function bodyOf<S extends z.ZodType>(event: H3Event, schema: S): Pr
 export function queryOf<S extends z.ZodType>(event: H3Event, schema: S): z.output<S> {
   const result = schema.safeParse(getQuery(event))
   if (!result.success) invalid(result.error, 'query')
+  refuseNul(result.data)
   return result.data
 }
 

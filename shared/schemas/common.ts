@@ -11,15 +11,16 @@ export const searchSchema = z.string().trim().max(120, 'Use at most 120 characte
 /** Which rows a list shows: the active ones (default), the archived ones, or both. */
 export const archivedFilterSchema = z.enum(['active', 'archived', 'all']).default('active')
 
-/** A calendar date typed as YYYY-MM-DD. */
+/** A calendar date typed as YYYY-MM-DD, in years a programme can mean (PostgreSQL has no year 0000). */
 export const isoDateSchema = z.iso.date({ error: 'Enter a date as YYYY-MM-DD.' })
+  .refine((d) => d >= '1900-01-01' && d <= '2999-12-31', 'Enter a date between the years 1900 and 2999.')
 
 // No defaults in form schemas: zod applies them inside .partial() too, which would blank fields a PATCH left out.
 /** A free text such as notes, trimmed. */
 export const notesSchema = z.string().trim().max(2000, 'Use at most 2000 characters.')
 
 /** The row version the form was loaded with (optimistic locking). */
-export const versionSchema = z.number({ error: 'Reload and try again.' }).int().positive()
+export const versionSchema = z.number({ error: 'Reload and try again.' }).int().positive().max(2_147_483_647, 'Reload and try again.')
 
 /** A required number within limits, with plain messages. */
 export function boundedNumber(min: number, max: number, unit = '') {

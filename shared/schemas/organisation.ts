@@ -1,6 +1,7 @@
 import { z } from 'zod'
 import { ROLES } from '../permissions'
-import { emailSchema, organisationNameSchema } from './account'
+import { emailSchema, organisationNameSchema, timeZoneSchema } from './account'
+import { versionSchema } from './common'
 
 export const roleSchema = z.enum(ROLES, { error: 'Choose a role.' })
 
@@ -25,8 +26,9 @@ export const organisationUpdateSchema = z.object({
   monitorBands: z.array(z.union([z.literal(1), z.literal(2), z.literal(3), z.literal(4)], { error: 'Bands are 1 to 4.' })).max(4)
     .refine((b) => new Set(b).size === b.length, 'Each band once.').optional(),
   monitorFactor: z.number({ error: 'Enter a number.' }).gt(0, 'Use more than 0 and at most 1.').max(1, 'Use more than 0 and at most 1.').optional(),
-  timeZone: z.string().min(1).max(64).optional(),
-  version: z.number().int().positive(),
+  // A zone the server cannot use would break every date the organisation shows (dashboard, due lists).
+  timeZone: timeZoneSchema.optional(),
+  version: versionSchema,
 })
 
 export const invitationCreateSchema = z.object({ email: emailSchema, role: roleSchema })
