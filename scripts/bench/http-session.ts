@@ -16,9 +16,15 @@ export class HttpSession {
     }
   }
 
+  /** The Cookie header this session sends (for load tools that make their own requests). */
+  cookieHeader(): string {
+    return [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ')
+  }
+
   /** Sends a request; the body is JSON unless `form` is set. */
   async request(method: string, path: string, body?: unknown, form = false): Promise<{ status: number; text: string; json: () => any }> {
-    const headers: Record<string, string> = { accept: 'application/json', cookie: [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ') }
+    // The app's own origin, as a browser sends it: state-changing requests from anywhere else are refused (403).
+    const headers: Record<string, string> = { accept: 'application/json', origin: new URL(this.baseUrl).origin, cookie: [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ') }
     let payload: string | undefined
     if (body !== undefined) {
       headers['content-type'] = form ? 'application/x-www-form-urlencoded' : 'application/json'

@@ -33,6 +33,9 @@ export async function authenticate(email: string, password: string) {
   return (await verifyPassword(password, user.password_hash)) ? user : null
 }
 
+/** Days after sign-in when a session ends however often it was used (OWASP: absolute session timeout). */
+export const SESSION_MAX_DAYS = 30
+
 const unauthenticated = () =>
   createError({ statusCode: 401, statusMessage: 'Unauthenticated', data: { message: 'Please sign in.' } })
 
@@ -52,6 +55,10 @@ export async function requireUser(event: H3Event): Promise<SessionUser> {
   const authAt = Number((session as { authAt?: number }).authAt ?? 0)
   if (authAt < new Date(row.password_changed_at).getTime() - 1000) {
     throw createError({ statusCode: 401, statusMessage: 'Session ended', data: { message: 'Your password was changed, so this session has ended. Please sign in again.' } })
+  }
+  // Absolute lifetime: a session kept alive by daily use still ends SESSION_MAX_DAYS after its sign-in.
+  if (Date.now() - authAt > SESSION_MAX_DAYS * 86_400_000) {
+    throw createError({ statusCode: 401, statusMessage: 'Session ended', data: { message: `You signed in more than ${SESSION_MAX_DAYS} days ago, so this session has ended. Please sign in again.` } })
   }
   const user: SessionUser = {
     id: row.id,
@@ -78,7 +85,9 @@ export async function requireMember(
   const bearer = bearerOf(event)
   if (bearer !== null) {
     const tokenSlug = orgSlugSchema.safeParse(getRouterParam(event, 'org'))
-    return requireTokenMember(event, bearer, tokenSlug.success ? tokenSlug.data : null, opts)
+    const ctx = await requireTokenMember(event, bearer, tokenSlug.success ? tokenSlug.data : null, opts)
+    setRequestTenant(event, ctx.org.id)
+    return ctx
   }
   const user = await requireUser(event)
   const slug = orgSlugSchema.safeParse(getRouterParam(event, 'org'))
@@ -110,6 +119,8 @@ export async function requireMember(
   if (event.method !== 'GET' && event.method !== 'HEAD' && !opts.allowWhenReadOnly) {
     await assertWritable({ id: row.id, name: row.name }, row.role)
   }
+  // Second wall: from here on every query of this request sees only this organisation's rows (server/utils/db.ts).
+  setRequestTenant(event, row.id)
   return { user, org: { id: row.id, slug: row.slug, name: row.name }, member: { role: row.role, since: row.created_at } }
 }
 

@@ -23,7 +23,10 @@ export class ApiClient {
   }
 
   async request<T = any>(method: string, path: string, body?: unknown, form = false, extraHeaders: Record<string, string> = {}): Promise<ApiResponse<T>> {
-    const headers: Record<string, string> = { accept: 'application/json', cookie: this.cookieHeader(), ...extraHeaders }
+    // Like a browser on the app's own pages, every request names its origin (server/middleware/cross-site.ts refuses
+    // state-changing requests from any other). An extra header set to '' leaves that header out.
+    const headers: Record<string, string> = { accept: 'application/json', cookie: this.cookieHeader(), origin: new URL(this.baseUrl).origin, ...extraHeaders }
+    for (const [k, v] of Object.entries(headers)) if (v === '') delete headers[k]
     let payload: string | undefined
     if (body !== undefined) {
       headers['content-type'] = form ? 'application/x-www-form-urlencoded' : 'application/json'
@@ -56,6 +59,24 @@ export class ApiClient {
   }
 
   hasSession() { return [...this.cookies.keys()].some((k) => k.includes('session-token')) }
+
+  /** Sends the bytes exactly as given, with any content type or none (malformed-request tests); same cookies and origin. */
+  async raw(method: string, path: string, payload?: Uint8Array, headers: Record<string, string> = {}): Promise<ApiResponse & { text: string }> {
+    const all: Record<string, string> = { accept: 'application/json', cookie: this.cookieHeader(), origin: new URL(this.baseUrl).origin, ...headers }
+    const res = await fetch(`${this.baseUrl}${path}`, { method, headers: all, body: payload ? new Uint8Array(payload) : undefined, redirect: 'manual' })
+    this.keep(res)
+    const text = await res.text()
+    let body: any = text
+    try { body = text ? JSON.parse(text) : null } catch { /* not JSON */ }
+    return { status: res.status, body, headers: res.headers, text }
+  }
+
+  /** The same session (one cookie jar) against another address, e.g. one app instance behind the load balancer. */
+  at(baseUrl: string): ApiClient {
+    const other = new ApiClient(baseUrl)
+    other.cookies = this.cookies
+    return other
+  }
 }
 
 /** Messages the local SMTP catcher received for one address, newest first. */
