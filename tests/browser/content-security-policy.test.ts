@@ -131,8 +131,9 @@ describe('the content security policy in the browser', () => {
     await page.goto(`/orgs/${org.slug}/work-orders/${wo.body.id}`)
     const woThumb = page.getByTestId('finding-thumbnails').getByRole('img').first()
     await expect.poll(() => woThumb.evaluate((img) => (img as HTMLImageElement).naturalWidth), slow).toBe(320)
-    // Leaflet starts its site map there.
+    // Leaflet draws its site map there: the land outline and the order's one site as a marker.
     await expect.poll(() => page.locator('.wo-map.leaflet-container .leaflet-control-attribution').count(), slow).toBe(1)
+    await expect.poll(() => page.locator('.wo-map path.leaflet-interactive').count(), slow).toBe(1)
 
     // The findings list.
     await page.goto(`/orgs/${org.slug}/findings`)
