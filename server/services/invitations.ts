@@ -1,4 +1,4 @@
-import { sql, type Kysely, type Transaction } from 'kysely'
+import { sql, type Kysely, type Transaction, type UpdateObject } from 'kysely'
 import type { Database } from '~~/db/database'
 import type { Invitation } from '~~/db/tables/invitations'
 import type { Role } from '#shared/permissions'
@@ -72,46 +72,39 @@ export async function createInvitation(ctx: MemberContext, email: string, role: 
   return toInvitationView(row)
 }
 
-/** Sends a pending invitation again with a fresh link and a fresh expiry; the old link stops working. */
-export async function resendInvitation(ctx: MemberContext, id: string): Promise<InvitationView> {
-  const { token, hash } = newToken()
-  const expiresAt = new Date(Date.now() + INVITATION_DAYS * 86400_000)
+/** Changes a still-pending invitation and records it in the audit log, in one transaction; 404 when none is pending. */
+async function changePendingInvitation(
+  ctx: MemberContext,
+  id: string,
+  action: 'member.invitation_resent' | 'member.invitation_revoked',
+  set: UpdateObject<Database, 'invitations'>,
+) {
   const row = await useDb().transaction().execute(async (trx) => {
-    const updated = await trx
-      .updateTable('invitations')
-      .set({ token_hash: hash, expires_at: expiresAt, last_sent_at: new Date(), sent_count: sql`sent_count + 1` })
-      .where('organisation_id', '=', ctx.org.id)
-      .where('id', '=', id)
-      .where('status', '=', 'pending')
-      .returning(columns)
-      .executeTakeFirst()
+    const updated = await trx.updateTable('invitations').set(set)
+      .where('organisation_id', '=', ctx.org.id).where('id', '=', id).where('status', '=', 'pending')
+      .returning(columns).executeTakeFirst()
     if (updated) {
-      await record(trx, { ctx, action: 'member.invitation_resent', target: { kind: 'invitation', id: updated.id, label: updated.email }, details: { role: updated.role } })
+      await record(trx, { ctx, action, target: { kind: 'invitation', id: updated.id, label: updated.email }, details: { role: updated.role } })
     }
     return updated
   })
   if (!row) throw notFound('Pending invitation')
+  return row
+}
+
+/** Sends a pending invitation again with a fresh link and a fresh expiry; the old link stops working. */
+export async function resendInvitation(ctx: MemberContext, id: string): Promise<InvitationView> {
+  const { token, hash } = newToken()
+  const expiresAt = new Date(Date.now() + INVITATION_DAYS * 86400_000)
+  const row = await changePendingInvitation(ctx, id, 'member.invitation_resent',
+    { token_hash: hash, expires_at: expiresAt, last_sent_at: new Date(), sent_count: sql`sent_count + 1` })
   await mail(ctx.org.name, ctx.user.name, row.role, row.email, token, expiresAt)
   return toInvitationView(row)
 }
 
 /** Withdraws a pending invitation; its link then answers that it was withdrawn. */
 export async function revokeInvitation(ctx: MemberContext, id: string): Promise<InvitationView> {
-  const row = await useDb().transaction().execute(async (trx) => {
-    const updated = await trx
-      .updateTable('invitations')
-      .set({ status: 'revoked', revoked_at: new Date() })
-      .where('organisation_id', '=', ctx.org.id)
-      .where('id', '=', id)
-      .where('status', '=', 'pending')
-      .returning(columns)
-      .executeTakeFirst()
-    if (updated) {
-      await record(trx, { ctx, action: 'member.invitation_revoked', target: { kind: 'invitation', id: updated.id, label: updated.email }, details: { role: updated.role } })
-    }
-    return updated
-  })
-  if (!row) throw notFound('Pending invitation')
+  const row = await changePendingInvitation(ctx, id, 'member.invitation_revoked', { status: 'revoked', revoked_at: new Date() })
   return toInvitationView(row)
 }
 

@@ -1,10 +1,9 @@
-import { spawn, type ChildProcess } from 'node:child_process'
-import { createServer } from 'node:net'
 import { encode } from 'next-auth/jwt'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import { ApiClient, joinByInvitation, linkIn, mailFor, signUpOwner } from '../support/api'
 import { resetDatabase, testDb } from '../support/db'
-import { OUTPUT_DIR, ROOT, testEnv } from '../support/env'
+import { startAppProcess, stopAppProcess, type AppProcess } from '../support/app-process'
+import { testEnv } from '../support/env'
 import { makeOrg, surveyWith, withToken, type Org } from '../support/integration-fixtures'
 
 // Web security: headers and content security policy, the cross-site request rule (server/middleware/cross-site.ts),
@@ -267,48 +266,15 @@ describe('session expiry and revocation', () => {
 
 // ---- An instance configured for https (served over http here, as behind a TLS-terminating proxy) ----
 
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const s = createServer()
-    s.once('error', reject)
-    s.listen(0, '127.0.0.1', () => {
-      const port = (s.address() as { port: number }).port
-      s.close(() => resolve(port))
-    })
-  })
-}
+let httpsApp: AppProcess | undefined
 
-let httpsApp: { child: ChildProcess; port: number; log: string[] } | undefined
-
-afterAll(async () => {
-  if (!httpsApp || httpsApp.child.exitCode !== null) return
-  const exited = new Promise((r) => httpsApp!.child.once('exit', r))
-  httpsApp.child.kill('SIGTERM')
-  await Promise.race([exited, new Promise((r) => setTimeout(r, 5000))])
-  if (httpsApp.child.exitCode === null) httpsApp.child.kill('SIGKILL')
-})
+afterAll(() => stopAppProcess(httpsApp))
 
 describe('when the app URL is https', () => {
   it('sends HSTS, upgrades insecure requests and makes the session cookie Secure', async () => {
-    const port = await freePort()
     const publicUrl = 'https://greybody.websec.test'
-    const child = spawn('node', [`${OUTPUT_DIR}/server/index.mjs`], {
-      cwd: ROOT,
-      env: {
-        ...process.env, ...testEnv(), NODE_ENV: 'production', PORT: String(port), NITRO_PORT: String(port), NITRO_HOST: '127.0.0.1',
-        NUXT_APP_URL: publicUrl, AUTH_ORIGIN: `${publicUrl}/api/auth`, NUXT_SCHEDULER: 'off', NUXT_OUTBOX_WORKER: 'off', GREYBODY_REPORT_WORKER: 'off',
-      },
-      stdio: ['ignore', 'pipe', 'pipe'],
-    })
-    httpsApp = { child, port, log: [] }
-    child.stdout!.on('data', (b: Buffer) => httpsApp!.log.push(b.toString()))
-    child.stderr!.on('data', (b: Buffer) => httpsApp!.log.push(b.toString()))
-    const local = `http://127.0.0.1:${port}`
-    const until = Date.now() + 90_000
-    while (!(await fetch(`${local}/api/health`).then((r) => r.ok, () => false))) {
-      if (child.exitCode !== null || Date.now() > until) throw new Error(`app did not start: ${httpsApp.log.join('')}`)
-      await new Promise((r) => setTimeout(r, 200))
-    }
+    httpsApp = await startAppProcess({ NUXT_APP_URL: publicUrl, AUTH_ORIGIN: `${publicUrl}/api/auth`, GREYBODY_REPORT_WORKER: 'off' })
+    const local = httpsApp.url
 
     const page = await fetch(`${local}/sign-in`)
     expect(page.headers.get('strict-transport-security')).toBe('max-age=31536000; includeSubDomains')
