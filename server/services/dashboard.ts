@@ -7,7 +7,7 @@ import { AGE_BUCKETS, BACKLOG_STATES, defaultFrom, type AgeBucketKey, type Backl
 import type { dashboardCoverageQuerySchema, dashboardQuerySchema, dashboardRepeatQuerySchema, dashboardVerificationQuerySchema } from '#shared/schemas/dashboard'
 import type { AgeCounts, CoverageAssetRow, CoverageCounts, DashboardFigures, RepeatComponentRow, VerificationRow } from '#shared/types/dashboard'
 import type { Page } from '#shared/types/programme'
-import { assetDueSql, dueSql } from './schedule-sql'
+import { assetScheduleInputsSql, dueSql } from './schedule-sql'
 import { pageWindow } from './paging'
 import { programmeSettings } from './programme-settings'
 
@@ -94,15 +94,16 @@ function coverageRows(s: Scope) {
       from (${countedChecks(s)}) cc
       group by cc.asset_id
     ),
-    -- As openFindingBandSql, on the eve of the period: a monitor band if any finding open then is in one, else the worst.
+    -- As openFindingBandSql, on the eve of the period, for the part dueSql reads: a monitor band when a finding open
+    -- then is in one, else null (dueSql only asks whether the band is a monitor band), so only those findings are read.
     fo as (
-      select c.asset_id,
-        coalesce(min(x.eb) filter (where x.eb = any((select o2.monitor_bands from organisations o2 where o2.id = ${s.orgId})::smallint[])), min(x.eb))::smallint as band_at_start
+      select c.asset_id, min(x.eb)::smallint as band_at_start
       from findings f
       join checks c on c.organisation_id = f.organisation_id and c.id = f.check_id
       join surveys sv on sv.organisation_id = c.organisation_id and sv.id = c.survey_id
       cross join lateral (select coalesce(f.reviewed_band, f.band) as eb) x
       where f.organisation_id = ${s.orgId} and c.organisation_id = ${s.orgId} and sv.organisation_id = ${s.orgId}
+        and coalesce(f.reviewed_band, f.band) = any((select o2.monitor_bands from organisations o2 where o2.id = ${s.orgId})::smallint[])
         and ${localDate(sql.ref('f.created_at'), s)} < ${from}
         and sv.state in ${COUNTED_SURVEY_STATES} and sv.archived_at is null and f.archived_at is null
         and (f.closed_at is null or ${localDate(sql.ref('f.closed_at'), s)} >= ${from})
@@ -150,15 +151,32 @@ async function coverage(s: Scope): Promise<DashboardFigures['coverage']> {
   }
 }
 
-/** Overdue today, by the Due screen's own SQL (assetDueSql) over the same joins as the Due screen. */
+/**
+ * Overdue today, by the Due screen's rules (dueSql) over the same joins as the Due screen, with its per-asset inputs
+ * (last counted check, open finding in a monitor band) computed for the whole organisation in one grouped pass each
+ * (assetScheduleInputsSql) rather than as subqueries per asset: the same figures, without 100 000 × 3 lookups.
+ */
 async function overdue(s: Scope): Promise<DashboardFigures['overdue']> {
-  const d = assetDueSql(s.today)
+  const inputs = assetScheduleInputsSql(s.orgId, s.timeZone)
+  const d = dueSql({
+    condition: sql.ref('a.condition'),
+    assetIntervalMonths: sql.ref('a.interval_months'),
+    lastCheckedOn: sql.ref('ck.last_checked_on'),
+    openFindingBand: sql.ref('fo.monitor_band'),
+    normalMonths: sql.ref('o.interval_months_normal'),
+    condition3Months: sql.ref('o.interval_months_condition3'),
+    monitorBands: sql.ref('o.monitor_bands'),
+    monitorFactor: sql.ref('o.monitor_factor'),
+    today: sql`${s.today}::date`,
+  })
   const { rows } = await sql<Record<string, unknown>>`
     with due as (
       select a.id, a.site_id, s.code, s.name, ${d.dueOn} as due_on
       from assets a
       join organisations o on o.id = a.organisation_id
       join sites s on s.organisation_id = a.organisation_id and s.id = a.site_id
+      left join (${inputs.lastChecked}) ck on ck.asset_id = a.id
+      left join (${inputs.monitorBand}) fo on fo.asset_id = a.id
       where a.organisation_id = ${s.orgId} and o.id = ${s.orgId} and s.organisation_id = ${s.orgId}
         and a.archived_at is null and s.archived_at is null ${siteCondition(sql.ref('a.site_id'), s)}
     )
@@ -199,12 +217,14 @@ async function openFindings(s: Scope): Promise<DashboardFigures['openFindings']>
   }
 }
 
+// Assets checked: the assets join only serves the site filter (checks_asset_fkey guarantees the asset), so without
+// one it is left out — 190 000 index probes fewer on the large organisation.
 async function findingsPer100(s: Scope): Promise<DashboardFigures['findingsPer100']> {
   const { rows: [r] } = await sql<Record<string, unknown>>`
     select
       (select count(*) from ${findingsJoin(s)} where ${findingsWhere(s)} and ${foundOn(s)} between ${s.from}::date and ${s.to}::date) as findings,
       (select count(distinct cc.asset_id) from (${countedChecks(s)}) cc
-         join assets a on a.organisation_id = ${s.orgId} and a.id = cc.asset_id
+         ${s.siteIds.length ? sql`join assets a on a.organisation_id = ${s.orgId} and a.id = cc.asset_id` : sql``}
         where cc.on_date between ${s.from}::date and ${s.to}::date ${siteCondition(sql.ref('a.site_id'), s)}) as assets_checked`.execute(useDb())
   const findings = n(r?.findings)
   const assetsChecked = n(r?.assets_checked)

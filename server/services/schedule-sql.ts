@@ -111,3 +111,30 @@ export function siteOpenFindingsSql() {
     select a2.id from assets a2 where a2.organisation_id = s.organisation_id and a2.site_id = s.id and a2.archived_at is null)`
   return sql<number>`(select count(*) ${openFindingsFrom(atSite)})::int`
 }
+
+/**
+ * The due-date inputs of every asset of organisation `orgId` at once, for figures over the whole register: one
+ * grouped pass over its checks (`last_checked_on`, as lastCheckedOnSql) and one over its open findings in a monitor
+ * band (`monitor_band`), instead of three subqueries per asset (the dashboard reads 100 000 assets). dueSql only
+ * asks whether the open-finding band is a monitor band, and openFindingBandSql gives a monitor band exactly when an
+ * open finding is in one, so `monitor_band` in its place gives the same due dates while joining only those findings
+ * to their checks. Join `left join (...) ck on ck.asset_id = a.id` and
+ * `left join (...) fo on fo.asset_id = a.id`; an asset missing from either gets null, as the subqueries give.
+ * `timeZone` is the organisation's (organisations.time_zone).
+ */
+export function assetScheduleInputsSql(orgId: string, timeZone: string) {
+  const lastChecked = sql`
+    select c.asset_id, max((c.created_at at time zone ${timeZone})::date) as last_checked_on
+    from checks c
+    join surveys sv on sv.organisation_id = c.organisation_id and sv.id = c.survey_id
+    where c.organisation_id = ${orgId} and sv.organisation_id = ${orgId}
+      and c.outcome in ('clear', 'finding')
+      and sv.state in ${COUNTED_SURVEY_STATES} and sv.archived_at is null
+    group by c.asset_id`
+  const monitorBand = sql`
+    select c.asset_id, min(x.eb)::smallint as monitor_band
+    ${openFindingsFrom(sql`f.organisation_id = ${orgId} and c.organisation_id = ${orgId} and sv.organisation_id = ${orgId}
+      and coalesce(f.reviewed_band, f.band) = any((select o.monitor_bands from organisations o where o.id = ${orgId})::smallint[])`)}
+    group by c.asset_id`
+  return { lastChecked, monitorBand }
+}
