@@ -9,7 +9,8 @@
 // each finding takes one of them, chosen by hash within the band wanted — so the stored values are exactly what the
 // server would store for those inputs, and a save of an unchanged finding stores them again.
 import { sql, type Transaction } from 'kysely'
-import { ZERO_CELSIUS_K, correctionChain } from '../shared/thermal/index'
+import { correctionChain } from '../shared/thermal/index'
+import { computedColumns, readingColumns } from '../server/services/finding-columns'
 import { findingChainInput, type FindingValues } from '../shared/schemas/survey'
 
 const CRITERIA_ID = 'neta-100-18'
@@ -94,32 +95,20 @@ function repairedTemplates(): Array<Partial<FindingValues>> {
   }))
 }
 
-const kToC = (k: number) => k - ZERO_CELSIUS_K
-
 /** One reading through the engine, as server/services/finding-parts.ts (readingColumns + computedColumns) stores it. */
 function engineRow(t: Partial<FindingValues>, inst: (typeof INSTRUMENTS)[number], today: string, calibrationDue: string) {
   const { reading, options } = findingChainInput(t as FindingValues, {
     bandFromUm: inst.from, bandToUm: inst.to, accuracyK: inst.accK, accuracyPct: inst.accPct, ifovMrad: inst.ifov, calibrationDue,
   }, { criteriaId: CRITERIA_ID, today })
   const chain = correctionChain(reading, options)
+  // The server's own column mapping (findingColumns does the same); warnings stay an array here because the rows
+  // travel to PostgreSQL as one JSON document, where the column is read as jsonb.
   return {
-    apparent_c: t.apparentC!, reference_c: t.referenceC ?? null, ambient_c: t.ambientC ?? null, emissivity: t.emissivity!,
-    reflected_c: t.reflectedC!, reflected_method: t.reflectedMethod!, distance_m: t.distanceM ?? null,
-    transmittance: t.transmittance ?? null, window_transmittance: t.windowTransmittance ?? null, window_c: t.windowC ?? null,
-    load_a: t.loadA ?? null, rated_a: t.ratedA ?? null, wind_ms: t.windMs ?? null,
-    object_c: kToC(chain.hotObjectK),
-    rise_over_reference_k: chain.measured.overReferenceK ?? null,
-    rise_over_ambient_k: chain.measured.overAmbientK ?? null,
-    load_scaled_rise_k: chain.loadFactor !== null ? (chain.ranked.overReferenceK ?? chain.ranked.overAmbientK ?? null) : null,
-    band: chain.rank.band,
-    band_basis: chain.rank.basis,
+    ...readingColumns(t as FindingValues),
+    ...computedColumns(chain),
+    warnings: chain.warnings,
     action: chain.rank.action,
     repair_deadline_days: chain.rank.repairDeadlineDays,
-    uncertainty_low_c: chain.hotInterval ? kToC(chain.hotInterval.low) : null,
-    uncertainty_high_c: chain.hotInterval ? kToC(chain.hotInterval.high) : null,
-    warnings: chain.warnings,
-    criteria_id: chain.rank.criteriaId,
-    criteria_version: chain.rank.criteriaVersion,
   }
 }
 

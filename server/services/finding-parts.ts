@@ -2,10 +2,13 @@ import { sql, type Transaction } from 'kysely'
 import type { z } from 'zod'
 import type { Database } from '~~/db/database'
 import type { FindingRow } from '~~/db/tables/findings'
-import { ZERO_CELSIUS_K, correctionChain, isThermalInputError } from '#shared/thermal/index'
+import { correctionChain, isThermalInputError } from '#shared/thermal/index'
 import { FINDING_ENGINE_FIELDS, findingChainInput, type FindingValues, type findingSchema } from '#shared/schemas/survey'
 import type { FindingExtras } from '#shared/types/finding'
 import { num } from './paging'
+import { computedColumns, readingColumns } from './finding-columns'
+
+export { computedColumns, readingColumns }
 
 // Pieces of a finding shared by recording (surveys.ts) and editing/reviewing (findings.ts); imports neither.
 
@@ -49,7 +52,6 @@ export async function assertSurface(trx: Db, ctx: MemberContext, surfaceId: stri
   if (!row || (row.archived_at && row.id !== allowArchivedId)) fieldError('surfaceId', 'Choose a surface from this organisation’s library that is not archived.')
 }
 
-const kToC = (k: number) => k - ZERO_CELSIUS_K
 
 /** The imager fields the engine needs, as read from an `instruments` row. */
 export interface EngineInstrumentRow {
@@ -82,37 +84,6 @@ export function serverChain(inst: EngineInstrumentRow, input: FindingValues, opt
   } catch (e) {
     if (isThermalInputError(e)) fieldError(FINDING_ENGINE_FIELDS[e.field ?? ''] ?? 'apparentC', e.message)
     throw e
-  }
-}
-
-type Chain = ReturnType<typeof correctionChain>
-type ReadingInput = Pick<FindingValues, 'apparentC' | 'referenceC' | 'ambientC' | 'emissivity' | 'reflectedC' | 'reflectedMethod'
-  | 'distanceM' | 'transmittance' | 'windowTransmittance' | 'windowC' | 'loadA' | 'ratedA' | 'windMs'>
-
-/** The reading's inputs as stored (°C, metres, A, m/s) — the same columns on findings and verifications. */
-export function readingColumns(input: ReadingInput) {
-  return {
-    apparent_c: input.apparentC!, reference_c: input.referenceC ?? null, ambient_c: input.ambientC ?? null, emissivity: input.emissivity!,
-    reflected_c: input.reflectedC!, reflected_method: input.reflectedMethod, distance_m: input.distanceM ?? null,
-    transmittance: input.transmittance ?? null, window_transmittance: input.windowTransmittance ?? null, window_c: input.windowC ?? null,
-    load_a: input.loadA ?? null, rated_a: input.ratedA ?? null, wind_ms: input.windMs ?? null,
-  }
-}
-
-/** What the engine computed, as stored beside the inputs, with the criteria set's id and version it ranked with. */
-export function computedColumns(chain: Chain) {
-  return {
-    object_c: kToC(chain.hotObjectK),
-    rise_over_reference_k: chain.measured.overReferenceK ?? null,
-    rise_over_ambient_k: chain.measured.overAmbientK ?? null,
-    load_scaled_rise_k: chain.loadFactor !== null ? (chain.ranked.overReferenceK ?? chain.ranked.overAmbientK ?? null) : null,
-    band: chain.rank.band,
-    band_basis: chain.rank.basis,
-    uncertainty_low_c: chain.hotInterval ? kToC(chain.hotInterval.low) : null,
-    uncertainty_high_c: chain.hotInterval ? kToC(chain.hotInterval.high) : null,
-    warnings: JSON.stringify(chain.warnings),
-    criteria_id: chain.rank.criteriaId,
-    criteria_version: chain.rank.criteriaVersion,
   }
 }
 
