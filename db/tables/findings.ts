@@ -47,6 +47,18 @@ export interface FindingsTable {
   /** The surface-library entry whose ε was used, if one was picked. */
   surface_id: string | null
   archived_at: Date | null
+  /**
+   * Copies kept by PostgreSQL (migration 20261205_0100) so the findings list filters and sorts on one table: the
+   * check's survey and asset, the asset's site, the survey's date, state and archive, and the effective band
+   * (reviewed band where there is one, else band). Never written by the app.
+   */
+  survey_id: ColumnType<string, never, never>
+  asset_id: ColumnType<string, never, never>
+  site_id: ColumnType<string, never, never>
+  survey_planned_for: ColumnType<Date, never, never>
+  survey_state: ColumnType<'planned' | 'in_progress' | 'submitted' | 'reviewed' | 'returned', never, never>
+  survey_archived: ColumnType<boolean, never, never>
+  effective_band: ColumnType<number | null, never, never>
   version: Generated<number>
   created_at: ColumnType<Date, never, never>
   updated_at: ColumnType<Date, Date | string | undefined, Date | string>

@@ -90,8 +90,14 @@ export async function listSurveys(ctx: MemberContext, q: z.output<typeof surveyL
 }
 
 export function toFinding(f: FindingRowWithReviewer, assetId: string): SurveyFinding {
+  // Every property written out (no `...findingExtras(f)` first): V8 builds an object literal that starts with a spread
+  // and goes on with thirty properties some hundred times slower, and a list page makes fifty of them.
+  const extras = findingExtras(f)
   return {
-    ...findingExtras(f),
+    effectiveBand: extras.effectiveBand,
+    review: extras.review,
+    closedAt: extras.closedAt,
+    surfaceId: extras.surfaceId,
     id: f.id,
     checkId: f.check_id,
     assetId,
@@ -120,6 +126,14 @@ export function toFinding(f: FindingRowWithReviewer, assetId: string): SurveyFin
     criteriaVersion: f.criteria_version,
     version: f.version,
   }
+}
+
+/** A finding as lists show it, with its survey, site and asset (findings list, GET findings/:id). */
+export function toFindingListItem(
+  r: FindingRowWithReviewer & { asset_id: string; survey_id: string; planned_for: string; site_name: string; asset_label: string },
+): FindingListItem {
+  // Added to the finding rather than spread into a new literal (see toFinding).
+  return Object.assign(toFinding(r, r.asset_id), { surveyId: r.survey_id, plannedFor: r.planned_for, siteName: r.site_name, assetLabel: r.asset_label })
 }
 
 /** One survey with its sites in visiting order, the assets at each, their checks and findings; 404 when not this organisation's. */
@@ -433,7 +447,7 @@ export async function listFindings(
   const [count, rows] = await Promise.all([countQuery.executeTakeFirstOrThrow(), rowsQuery.execute()])
   const n = Number(count.n)
   return {
-    items: rows.map((r) => ({ ...toFinding(r, r.asset_id), surveyId: r.survey_id, plannedFor: r.planned_for, siteName: r.site_name, assetLabel: r.asset_label })),
+    items: rows.map(toFindingListItem),
     // Counted up to countCap: beyond it the list says "more than countCap".
     total: Math.min(n, countCap),
     ...(n > countCap ? { totalCapped: true } : {}),
