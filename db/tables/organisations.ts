@@ -4,6 +4,8 @@ export interface OrganisationsTable {
   id: Generated<string>
   slug: string
   name: string
+  /** Goes up by one with every committed change to the organisation's data (migration 20261205_0200); never written by the app. */
+  change_seq: ColumnType<number, never, never>
   /** Load-scaling exponent n (1.5–2.0); pg returns numeric as string. */
   load_exponent: ColumnType<string, number | string | undefined, number | string>
   time_zone: Generated<string>

@@ -48,7 +48,7 @@ export async function requireTokenMember(
     .innerJoin('organisations as o', 'o.id', 't.organisation_id')
     .innerJoin('memberships as m', (j) => j.onRef('m.organisation_id', '=', 't.organisation_id').onRef('m.user_id', '=', 't.created_by'))
     .innerJoin('users as u', 'u.id', 't.created_by')
-    .select(['t.id', 't.name', 't.scope', 't.revoked_at', 'o.id as org_id', 'o.slug', 'o.name as org_name', 'm.removed_at', 'm.created_at as member_since',
+    .select(['t.id', 't.name', 't.scope', 't.revoked_at', 'o.id as org_id', 'o.slug', 'o.name as org_name', 'o.change_seq', 'm.removed_at', 'm.created_at as member_since',
       'u.id as user_id', 'u.email', 'u.name as user_name', 'u.temperature_unit', 'u.length_unit', 'u.time_zone'])
     .where('t.token_hash', '=', hashApiToken(secret))
     .executeTakeFirst()
@@ -87,7 +87,7 @@ export async function requireTokenMember(
       id: row.user_id, email: row.email, name: `${row.user_name} (API token “${row.name}”)`,
       temperatureUnit: row.temperature_unit, lengthUnit: row.length_unit, timeZone: row.time_zone,
     },
-    org: { id: row.org_id, slug: row.slug, name: row.org_name },
+    org: { id: row.org_id, slug: row.slug, name: row.org_name, changeSeq: Number(row.change_seq) },
     // A token is never more than a viewer plus its write permissions: services that look at the role see a viewer.
     member: { role: 'viewer', since: row.member_since },
     token: { id: row.id, name: row.name, scope },

@@ -4,11 +4,20 @@ import { Kysely, PostgresDialect } from 'kysely'
 import pg from 'pg'
 import type { Database } from '~~/db/database'
 import { SYSTEM_SETTING, tenantReserveHook } from '~~/db/tenant-connection'
+import { TENANT_SETTING } from '~~/db/tenant-wall'
 
 // numeric columns come back as strings by default; bigint counts as numbers are safe for our sizes.
 pg.types.setTypeParser(20, (v) => Number(v))
 
 let instance: Kysely<Database> | undefined
+let authInstance: Kysely<Database> | undefined
+let authPool: pg.Pool | undefined
+
+function databaseUrl(): string {
+  const connectionString = useRuntimeConfig().databaseUrl || process.env.NUXT_DATABASE_URL
+  if (!connectionString) throw new Error('NUXT_DATABASE_URL is not set')
+  return connectionString
+}
 
 // Work started from a request that must not run as that request's organisation (the report worker, kicked by a
 // request but working through every organisation's queue).
@@ -44,8 +53,7 @@ export function runAsSystem<T>(work: () => T): T {
 /** The one Kysely instance of this server process, configured from NUXT_DATABASE_URL. */
 export function useDb(): Kysely<Database> {
   if (!instance) {
-    const connectionString = useRuntimeConfig().databaseUrl || process.env.NUXT_DATABASE_URL
-    if (!connectionString) throw new Error('NUXT_DATABASE_URL is not set')
+    const connectionString = databaseUrl()
     instance = new Kysely<Database>({
       dialect: new PostgresDialect({
         // The listener keeps an idle connection that PostgreSQL dropped (restart, failover) from ending the process.
@@ -56,4 +64,24 @@ export function useDb(): Kysely<Database> {
     })
   }
   return instance
+}
+
+/**
+ * A small pool of its own for the one lookup every request makes before it knows its organisation: the signed-in
+ * person and their membership (requireUser, requireMember). Its connections are opened as system ('*') and never
+ * switched, so the main pool's connections keep the organisation they last served instead of being switched to '*'
+ * and back on every request (one round trip each way). Read-only use: users, memberships, organisations.
+ */
+export function useAuthDb(): Kysely<Database> {
+  if (!authInstance) authInstance = new Kysely<Database>({ dialect: new PostgresDialect({ pool: useAuthPool() }) })
+  return authInstance
+}
+
+/** The auth lookup's pool itself, for its one prepared statement (requireMember in server/utils/auth.ts). */
+export function useAuthPool(): pg.Pool {
+  if (!authPool) {
+    authPool = new pg.Pool({ connectionString: databaseUrl(), max: Number(process.env.DB_AUTH_POOL_MAX || 4), options: `-c ${TENANT_SETTING}=${SYSTEM_SETTING}` })
+      .on('error', logDroppedConnection)
+  }
+  return authPool
 }

@@ -2,6 +2,7 @@ import CredentialsProvider from 'next-auth/providers/credentials'
 import { NuxtAuthHandler } from '#auth'
 import { signInSchema } from '#shared/schemas/account'
 import { recordSignIn, recordSignOut } from '~~/server/services/audit'
+import { decodeSessionToken, encodeSessionToken } from '~~/server/utils/session-token'
 
 // Nitro's ESM output exposes the provider factory on .default.
 const Credentials = ((CredentialsProvider as any).default ?? CredentialsProvider) as typeof CredentialsProvider
@@ -11,6 +12,8 @@ export default NuxtAuthHandler({
   // A session token is valid 14 days after it was last re-issued (the app reads the session on load and on focus);
   // requireUser also ends every session 30 days after its sign-in and any opened before a password change.
   session: { strategy: 'jwt', maxAge: 60 * 60 * 24 * 14 },
+  // next-auth's own token format, with its derived key and decrypted tokens remembered (server/utils/session-token.ts).
+  jwt: { encode: encodeSessionToken, decode: decodeSessionToken as never },
   // Session cookies are HttpOnly and SameSite=Lax (next-auth's defaults); Secure, with the __Secure-/__Host- names,
   // whenever the app is served over https.
   useSecureCookies: String(useRuntimeConfig().appUrl).startsWith('https://'),
