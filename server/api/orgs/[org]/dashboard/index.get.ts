@@ -3,5 +3,7 @@ import { dashboardFigures } from '~~/server/services/dashboard'
 
 export default defineEventHandler(async (event) => {
   const ctx = await requireMember(event, { permission: 'dashboard.view' })
-  return dashboardFigures(ctx, queryOf(event, dashboardQuerySchema))
+  const q = queryOf(event, dashboardQuerySchema)
+  // Reused until the organisation's data changes or the quarter-hour turns (every time zone's date changes on one).
+  return reuseAnswer(event, ctx, `dashboard-index ${quarterHour()} ${JSON.stringify(q)}`, () => dashboardFigures(ctx, q))
 })
