@@ -22,9 +22,9 @@ export class HttpSession {
   }
 
   /** Sends a request; the body is JSON unless `form` is set. */
-  async request(method: string, path: string, body?: unknown, form = false): Promise<{ status: number; text: string; json: () => any }> {
+  async request(method: string, path: string, body?: unknown, form = false, extraHeaders: Record<string, string> = {}): Promise<{ status: number; text: string; json: () => any }> {
     // The app's own origin, as a browser sends it: state-changing requests from anywhere else are refused (403).
-    const headers: Record<string, string> = { accept: 'application/json', origin: new URL(this.baseUrl).origin, cookie: [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ') }
+    const headers: Record<string, string> = { accept: 'application/json', origin: new URL(this.baseUrl).origin, cookie: [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; '), ...extraHeaders }
     let payload: string | undefined
     if (body !== undefined) {
       headers['content-type'] = form ? 'application/x-www-form-urlencoded' : 'application/json'
