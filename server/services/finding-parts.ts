@@ -7,6 +7,7 @@ import { FINDING_ENGINE_FIELDS, findingChainInput, type FindingValues, type find
 import type { FindingExtras } from '#shared/types/finding'
 import { num } from './paging'
 import { computedColumns, readingColumns } from './finding-columns'
+import type { FINDING_API_COLUMNS } from './finding-list-sql'
 
 export { computedColumns, readingColumns }
 
@@ -16,6 +17,8 @@ type Db = ReturnType<typeof useDb> | Transaction<Database>
 
 /** A finding row as read with its reviewer's name (see reviewerNameSql). */
 export type FindingRowWithReviewer = FindingRow & { reviewer_name?: string | null }
+/** The part of a finding's row an API finding is made of (FINDING_API_COLUMNS in finding-list-sql.ts). */
+export type FindingApiRow = Pick<FindingRowWithReviewer, typeof FINDING_API_COLUMNS[number] | 'reviewer_name'>
 
 /** The reviewer's name for a findings row aliased `f` (users are global; the id comes from the tenant's own row). */
 export function reviewerNameSql() {
@@ -28,7 +31,7 @@ export function effectiveBandSql(alias = 'f') {
 }
 
 /** Review, closing and surface fields of the API finding. */
-export function findingExtras(f: FindingRowWithReviewer): FindingExtras {
+export function findingExtras(f: FindingApiRow): FindingExtras {
   return {
     effectiveBand: f.reviewed_band ?? f.band,
     review: f.reviewed_band !== null && f.reviewed_band !== undefined

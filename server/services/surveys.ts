@@ -17,7 +17,7 @@ import type { FindingListItem, SurveyAsset, SurveyDetail, SurveyFinding, SurveyL
 import type { Page } from '#shared/types/programme'
 import { changedMeanwhile, num, pageWindow } from './paging'
 import { notifyBandOneFinding } from './notices'
-import { assertSurface, findingColumns, findingExtras, reviewerNameSql, type FindingRowWithReviewer } from './finding-parts'
+import { assertSurface, findingColumns, findingExtras, reviewerNameSql, type FindingApiRow } from './finding-parts'
 import { linkGridToFinding } from './temperature-grids'
 import { findingListQueries } from './finding-list-sql'
 
@@ -89,7 +89,7 @@ export async function listSurveys(ctx: MemberContext, q: z.output<typeof surveyL
   return { items: rows.map(toListItem), total: Number(count.n), page: q.page, pageSize: q.pageSize }
 }
 
-export function toFinding(f: FindingRowWithReviewer, assetId: string): SurveyFinding {
+export function toFinding(f: FindingApiRow, assetId: string): SurveyFinding {
   // Every property written out (no `...findingExtras(f)` first): V8 builds an object literal that starts with a spread
   // and goes on with thirty properties some hundred times slower, and a list page makes fifty of them.
   const extras = findingExtras(f)
@@ -130,7 +130,7 @@ export function toFinding(f: FindingRowWithReviewer, assetId: string): SurveyFin
 
 /** A finding as lists show it, with its survey, site and asset (findings list, GET findings/:id). */
 export function toFindingListItem(
-  r: FindingRowWithReviewer & { asset_id: string; survey_id: string; planned_for: string; site_name: string; asset_label: string },
+  r: FindingApiRow & { planned_for: string; site_name: string; asset_label: string },
 ): FindingListItem {
   // Added to the finding rather than spread into a new literal (see toFinding).
   return Object.assign(toFinding(r, r.asset_id), { surveyId: r.survey_id, plannedFor: r.planned_for, siteName: r.site_name, assetLabel: r.asset_label })
