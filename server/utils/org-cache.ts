@@ -21,6 +21,8 @@ interface Kept {
 /** Kept answers by key, least recently used first; bounded by total size. */
 const kept = new Map<string, Kept>()
 let keptBytes = 0
+/** Computations under way, by key and number. */
+const inFlight = new Map<string, Promise<string>>()
 const limitBytes = () => Number(process.env.GREYBODY_ANSWER_CACHE_MB || 64) * 1024 * 1024
 
 function forget(key: string) {
@@ -67,11 +69,36 @@ export async function reuseAnswer<T>(event: H3Event, ctx: MemberContext, key: st
       return hit.json
     }
   }
-  const json = JSON.stringify(await compute())
-  // Never replace an answer kept under a later number (a request that started after this one's read).
-  if (!off && !((kept.get(fullKey)?.seq ?? -1) > seq!)) keep(fullKey, { seq: seq!, json })
-  setResponseHeader(event, 'x-greybody-answer', fresh ? 'fresh' : 'computed')
+  if (off || fresh) {
+    const json = JSON.stringify(await compute())
+    if (!off) keepUnlessNewer(fullKey, seq!, json)
+    setResponseHeader(event, 'x-greybody-answer', off ? 'computed' : 'fresh')
+    return json
+  }
+  // Requests for the same answer under the same number while it is being computed wait for that one computation
+  // (after a change, every open screen asks again at once).
+  const flightKey = `${fullKey} ${seq}`
+  let flight = inFlight.get(flightKey)
+  if (!flight) {
+    flight = (async () => {
+      try {
+        const json = JSON.stringify(await compute())
+        keepUnlessNewer(fullKey, seq!, json)
+        return json
+      } finally {
+        inFlight.delete(flightKey)
+      }
+    })()
+    inFlight.set(flightKey, flight)
+  }
+  const json = await flight
+  setResponseHeader(event, 'x-greybody-answer', 'computed')
   return json
+}
+
+/** Keeps an answer, but never over one kept under a later number (from a request that started after this one's read). */
+function keepUnlessNewer(fullKey: string, seq: number, json: string) {
+  if ((kept.get(fullKey)?.seq ?? -1) <= seq) keep(fullKey, { seq, json })
 }
 
 /**

@@ -116,6 +116,20 @@ describe('reused answers', () => {
     expect(next.body.items.find((f: { id: string }) => f.id === findingIds[1]).notes).toBe('Written by another instance.')
   })
 
+  it('give every request that arrives together after a change the new page', async () => {
+    expect(answer(await list('?pageSize=10'))).toBe('reused')
+    await testDb().updateTable('findings').set({ notes: 'Seen by all at once.' }).where('id', '=', findingIds[0]!).execute()
+    const together = await Promise.all(Array.from({ length: 8 }, () => list('?pageSize=10')))
+    expect(together.some((res) => answer(res) === 'computed')).toBe(true)
+    for (const res of together) {
+      expect(res.status).toBe(200)
+      // Computed (once, shared by those waiting for it) or, for one that arrived after, reused: never the old page.
+      expect(answer(res)).toMatch(/^(computed|reused)$/)
+      expect(res.body.items.find((f: { id: string }) => f.id === findingIds[0]).notes).toBe('Seen by all at once.')
+    }
+    expect(answer(await list('?pageSize=10'))).toBe('reused')
+  })
+
   it('show a reviewer’s new name', async () => {
     expect(answer(await list('?pageSize=10'))).toBe('reused')
     await testDb().updateTable('users').set({ name: 'Ines Renamed' }).where('id', '=', userId).execute()
