@@ -56,35 +56,24 @@ export async function up(db: Kysely<any>): Promise<void> {
     survey_planned_for, survey_state, survey_archived on findings
     for each row execute function findings_copy_list_keys()`.execute(db)
 
-  await sql`create function surveys_push_list_keys() returns trigger language plpgsql as $fn$
+  // A survey, asset or check whose copied values change makes its findings take their keys afresh (naming check_id
+  // fires the trigger above). The trigger's argument is the findings column that points at the changed row.
+  await sql`create function findings_refresh_list_keys() returns trigger language plpgsql as $fn$
     begin
-      update findings set check_id = check_id where organisation_id = new.organisation_id and survey_id = new.id;
+      execute format('update findings set check_id = check_id where organisation_id = $1 and %I = $2', tg_argv[0])
+        using new.organisation_id, new.id;
       return null;
     end
   $fn$`.execute(db)
   await sql`create trigger surveys_list_keys after update of planned_for, state, archived_at on surveys
     for each row when (old.planned_for is distinct from new.planned_for or old.state is distinct from new.state
       or (old.archived_at is null) <> (new.archived_at is null))
-    execute function surveys_push_list_keys()`.execute(db)
-
-  await sql`create function assets_push_list_keys() returns trigger language plpgsql as $fn$
-    begin
-      update findings set check_id = check_id where organisation_id = new.organisation_id and asset_id = new.id;
-      return null;
-    end
-  $fn$`.execute(db)
+    execute function findings_refresh_list_keys('survey_id')`.execute(db)
   await sql`create trigger assets_list_keys after update of site_id on assets
-    for each row when (old.site_id is distinct from new.site_id) execute function assets_push_list_keys()`.execute(db)
-
-  await sql`create function checks_push_list_keys() returns trigger language plpgsql as $fn$
-    begin
-      update findings set check_id = check_id where organisation_id = new.organisation_id and check_id = new.id;
-      return null;
-    end
-  $fn$`.execute(db)
+    for each row when (old.site_id is distinct from new.site_id) execute function findings_refresh_list_keys('asset_id')`.execute(db)
   await sql`create trigger checks_list_keys after update of survey_id, asset_id on checks
     for each row when (old.survey_id is distinct from new.survey_id or old.asset_id is distinct from new.asset_id)
-    execute function checks_push_list_keys()`.execute(db)
+    execute function findings_refresh_list_keys('check_id')`.execute(db)
 
   // The list's order is newest survey first, then the most severe band, then the order recorded (finding-list-sql.ts).
   // Each index below returns a filter's findings already in that order, so a page stops after its rows; the columns
@@ -125,7 +114,7 @@ export async function down(db: Kysely<any>): Promise<void> {
   await sql`drop trigger if exists surveys_list_keys on surveys`.execute(db)
   await sql`drop trigger if exists findings_list_keys_on_update on findings`.execute(db)
   await sql`drop trigger if exists findings_list_keys_on_insert on findings`.execute(db)
-  for (const f of ['checks_push_list_keys', 'assets_push_list_keys', 'surveys_push_list_keys', 'findings_copy_list_keys']) {
+  for (const f of ['findings_refresh_list_keys', 'findings_copy_list_keys']) {
     await sql`drop function if exists ${sql.id(f)}()`.execute(db)
   }
   await sql`alter table findings drop column effective_band, drop column survey_archived, drop column survey_state,
