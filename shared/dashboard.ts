@@ -67,3 +67,20 @@ export function percent(rate: number | null): string {
 export function decimal(value: number | null, digits = 1): string {
   return value === null ? '—' : value.toLocaleString('en-GB', { maximumFractionDigits: digits })
 }
+
+/** Sites drawn in the coverage chart and table: past this many (5 000 at a large utility), the least covered. */
+export const COVERAGE_SITES_SHOWN = 25
+/** Sites named under the overdue figure, most overdue first. */
+export const OVERDUE_SITES_SHOWN = 5
+
+/**
+ * The `limit` sites with the lowest coverage (then the most assets due), kept in their listed order (by code): a
+ * chart of thousands of bars says nothing, and its answer would be a megabyte.
+ */
+export function worstCovered<T extends { rate: number | null; due: number }>(sites: T[], limit: number): T[] {
+  if (sites.length <= limit) return sites
+  const chosen = new Set(sites.map((site, i) => ({ site, i }))
+    .sort((a, b) => (a.site.rate ?? 1) - (b.site.rate ?? 1) || b.site.due - a.site.due || a.i - b.i)
+    .slice(0, limit).map((x) => x.i))
+  return sites.filter((_, i) => chosen.has(i))
+}

@@ -3,7 +3,7 @@
 // The definitions the page shows beside each figure are in shared/dashboard.ts (FIGURE_DEFINITIONS).
 import { sql, type RawBuilder } from 'kysely'
 import type { z } from 'zod'
-import { AGE_BUCKETS, BACKLOG_STATES, defaultFrom, type AgeBucketKey, type BacklogState } from '#shared/dashboard'
+import { AGE_BUCKETS, BACKLOG_STATES, COVERAGE_SITES_SHOWN, OVERDUE_SITES_SHOWN, defaultFrom, worstCovered, type AgeBucketKey, type BacklogState } from '#shared/dashboard'
 import type { dashboardCoverageQuerySchema, dashboardQuerySchema, dashboardRepeatQuerySchema, dashboardVerificationQuerySchema } from '#shared/schemas/dashboard'
 import type { AgeCounts, CoverageAssetRow, CoverageCounts, DashboardFigures, RepeatComponentRow, VerificationRow } from '#shared/types/dashboard'
 import type { Page } from '#shared/types/programme'
@@ -145,9 +145,11 @@ async function coverage(s: Scope): Promise<DashboardFigures['coverage']> {
       count(*) filter (where x.status = 'missed') as missed
     from x group by x.site_id order by min(x.site_code) nulls last, min(x.site_name), x.site_id`.execute(useDb())
   const sum = (k: string) => rows.reduce((t, r) => t + n(r[k]), 0)
+  const sites = rows.map((r) => ({ siteId: String(r.site_id), code: (r.code as string | null) ?? null, name: String(r.name), ...coverageCounts(r) }))
   return {
     ...coverageCounts({ due: sum('due'), on_time: sum('on_time'), late: sum('late'), missed: sum('missed') }),
-    sites: rows.map((r) => ({ siteId: String(r.site_id), code: (r.code as string | null) ?? null, name: String(r.name), ...coverageCounts(r) })),
+    siteCount: sites.length,
+    sites: worstCovered(sites, COVERAGE_SITES_SHOWN),
   }
 }
 
@@ -186,7 +188,9 @@ async function overdue(s: Scope): Promise<DashboardFigures['overdue']> {
   return {
     assets: rows.reduce((t, r) => t + n(r.assets), 0),
     sites: rows.length,
-    bySite: rows.map((r) => ({ siteId: String(r.site_id), code: (r.code as string | null) ?? null, name: String(r.name), assets: n(r.assets) })),
+    // Most overdue first; the dashboard names the first few, the Due screen has them all.
+    bySite: rows.slice(0, OVERDUE_SITES_SHOWN)
+      .map((r) => ({ siteId: String(r.site_id), code: (r.code as string | null) ?? null, name: String(r.name), assets: n(r.assets) })),
   }
 }
 

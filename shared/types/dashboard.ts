@@ -31,7 +31,9 @@ export interface DashboardFigures {
   from: string
   to: string
   siteIds: string[]
-  coverage: CoverageCounts & { sites: CoverageSite[] }
+  /** sites: at most 25, the least covered when there are more (siteCount: how many sites had something due). */
+  coverage: CoverageCounts & { siteCount: number; sites: CoverageSite[] }
+  /** bySite: the 5 sites with the most overdue assets (sites: how many have any). */
   overdue: { assets: number; sites: number; bySite: OverdueSite[] }
   openFindings: { total: number; byBand: Array<{ band: 1 | 2 | 3 | 4 | null; total: number; ages: AgeCounts }> }
   findingsPer100: { findings: number; assetsChecked: number; rate: number | null }

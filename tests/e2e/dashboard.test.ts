@@ -60,7 +60,7 @@ describe('dashboard figures for the period 2025-07-01..2025-12-31, all sites', (
     // North: due 5 (N1–N5), on time 2, late 2, missed 1 → 2/5 = 0.4
     // South: due 4 (S1, S2, S4, S5), on time 1, late 1, missed 2 → 1/4 = 0.25
     // Overall: due 9, on time 3, late 3, missed 3 → 3/9
-    expect(body.coverage).toMatchObject({ due: 9, onTime: 3, late: 3, missed: 3 })
+    expect(body.coverage).toMatchObject({ due: 9, onTime: 3, late: 3, missed: 3, siteCount: 2 })
     expect(body.coverage.rate).toBeCloseTo(3 / 9, 10)
     expect(body.coverage.sites.map((s: any) => [s.code, s.due, s.onTime, s.late, s.missed, s.rate])).toEqual([
       ['N', 5, 2, 2, 1, 0.4],

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { AGE_BUCKETS, decimal, defaultFrom, percent } from '../../../shared/dashboard'
+import { AGE_BUCKETS, COVERAGE_SITES_SHOWN, decimal, defaultFrom, percent, worstCovered } from '../../../shared/dashboard'
 import { dashboardQuerySchema } from '../../../shared/schemas/dashboard'
 
 describe('the dashboard period and formats', () => {
@@ -35,5 +35,27 @@ describe('the dashboard period and formats', () => {
     const backwards = dashboardQuerySchema.safeParse({ from: '2025-12-01', to: '2025-11-01' })
     expect(backwards.success).toBe(false)
     expect(backwards.error!.issues[0]!.path).toEqual(['to'])
+  })
+})
+
+describe('the sites the coverage chart draws', () => {
+  const site = (code: string, due: number, onTime: number) => ({ code, due, rate: due ? onTime / due : null })
+  it('draws every site while there are at most the limit', () => {
+    const sites = [site('A', 4, 4), site('B', 2, 0)]
+    expect(worstCovered(sites, 2)).toEqual(sites)
+  })
+  it('past the limit draws the least covered (then the most due), in their listed order', () => {
+    const sites = [site('A', 4, 4), site('B', 10, 5), site('C', 2, 1), site('D', 8, 0), site('E', 3, 3), site('F', 0, 0)]
+    // Rates: A 1, B 0.5, C 0.5, D 0, E 1, F none due (counted as fully covered). Worst three: D, then B before C
+    // (same rate, more due); shown in listed order.
+    expect(worstCovered(sites, 3).map((s) => s.code)).toEqual(['B', 'C', 'D'])
+    expect(worstCovered(sites, 1).map((s) => s.code)).toEqual(['D'])
+  })
+  it('draws 25 of a large utility’s sites', () => {
+    const many = Array.from({ length: 5000 }, (_, i) => site(`S${String(i).padStart(4, '0')}`, 10, i % 11))
+    const shown = worstCovered(many, COVERAGE_SITES_SHOWN)
+    expect(COVERAGE_SITES_SHOWN).toBe(25)
+    expect(shown).toHaveLength(25)
+    expect(shown.every((s) => s.rate === 0)).toBe(true)
   })
 })
