@@ -1,6 +1,7 @@
 import { sql, type Transaction } from 'kysely'
 import type { Database } from '../database'
-import { ZERO_CELSIUS_K, correctionChain } from '../../shared/thermal/index'
+import { correctionChain } from '../../shared/thermal/index'
+import { computedColumns, readingColumns } from '../../server/services/finding-columns'
 import { findingChainInput, type FindingValues } from '../../shared/schemas/survey'
 import { addDays, todayIn } from '../../shared/schedule'
 import { DEFAULT_REPAIR_DEADLINES, repairDueOn } from '../../shared/work-orders'
@@ -18,25 +19,8 @@ function computed(r: Reading, instrument: { band_from_um: string; band_to_um: st
     accuracyPct: instrument.accuracy_pct === null ? null : Number(instrument.accuracy_pct), ifovMrad: instrument.ifov_mrad === null ? null : Number(instrument.ifov_mrad),
   }, { criteriaId: 'neta-100-18', today })
   const chain = correctionChain(reading, options)
-  const k = (v: number) => v - ZERO_CELSIUS_K
-  return {
-    apparent_c: r.apparentC!, reference_c: r.referenceC ?? null, ambient_c: r.ambientC ?? null, emissivity: r.emissivity!, reflected_c: r.reflectedC!,
-    reflected_method: r.reflectedMethod, distance_m: r.distanceM ?? null, transmittance: null, window_transmittance: null, window_c: null,
-    load_a: r.loadA ?? null, rated_a: r.ratedA ?? null, wind_ms: null,
-    object_c: k(chain.hotObjectK),
-    rise_over_reference_k: chain.measured.overReferenceK ?? null,
-    rise_over_ambient_k: chain.measured.overAmbientK ?? null,
-    load_scaled_rise_k: chain.loadFactor !== null ? (chain.ranked.overReferenceK ?? chain.ranked.overAmbientK ?? null) : null,
-    band: chain.rank.band,
-    band_basis: chain.rank.basis,
-    uncertainty_low_c: chain.hotInterval ? k(chain.hotInterval.low) : null,
-    uncertainty_high_c: chain.hotInterval ? k(chain.hotInterval.high) : null,
-    warnings: JSON.stringify(chain.warnings),
-    criteria_id: chain.rank.criteriaId,
-    criteria_version: chain.rank.criteriaVersion,
-    action: chain.rank.action,
-    repair_deadline_days: chain.rank.repairDeadlineDays,
-  }
+  // The same columns the server stores for a recorded finding (server/services/finding-columns.ts).
+  return { ...readingColumns(r), ...computedColumns(chain), action: chain.rank.action, repair_deadline_days: chain.rank.repairDeadlineDays }
 }
 
 const at = (day: string, hour: number) => new Date(`${day}T${String(hour).padStart(2, '0')}:00:00Z`)

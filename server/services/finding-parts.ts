@@ -15,10 +15,8 @@ export { computedColumns, readingColumns }
 
 type Db = ReturnType<typeof useDb> | Transaction<Database>
 
-/** A finding row as read with its reviewer's name (see reviewerNameSql). */
-export type FindingRowWithReviewer = FindingRow & { reviewer_name?: string | null }
-/** The part of a finding's row an API finding is made of (FINDING_API_COLUMNS in finding-list-sql.ts). */
-export type FindingApiRow = Pick<FindingRowWithReviewer, typeof FINDING_API_COLUMNS[number] | 'reviewer_name'>
+/** The part of a finding's row an API finding is made of (FINDING_API_COLUMNS in finding-list-sql.ts), with its reviewer's name. */
+export type FindingApiRow = Pick<FindingRow, typeof FINDING_API_COLUMNS[number]> & { reviewer_name?: string | null }
 
 /** The reviewer's name for a findings row aliased `f` (users are global; the id comes from the tenant's own row). */
 export function reviewerNameSql() {

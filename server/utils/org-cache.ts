@@ -43,11 +43,6 @@ function keep(key: string, value: Kept) {
   }
 }
 
-/** For tests and the benchmark: what is kept now. */
-export function answerCacheStats() {
-  return { entries: kept.size, bytes: keptBytes }
-}
-
 /**
  * The JSON answer of `compute()` for this organisation and `key`, reused while organisations.change_seq is unchanged.
  * `key` names the route and every input the answer depends on besides the organisation's data (filters, page, the
